@@ -151,12 +151,24 @@ type Walls struct {
 	Step Duration `yaml:"step,omitempty"`
 	// Sign of the perturbation, +1 (default) or −1.
 	Sign int `yaml:"sign,omitempty"`
-	// Sensitivity is "family" (default: each clock's coefficients from its
-	// family) or "unit" (unit effective sensitivity for every clock).
+	// Sensitivity is "unit" (default: one effective scale lambda_eff and
+	// unit effective sensitivity for every clock) or "family" (couplings
+	// per constant, lambda_alpha, lambda_me, lambda_mq, and each clock's
+	// sensitivity coefficients from its family; see package inject).
 	Sensitivity string `yaml:"sensitivity,omitempty"`
-	// Convention of the sensitivity coefficients when Sensitivity is
-	// family (see package inject).
+	// LambdaAlpha, LambdaMe, LambdaMq are the coupling scales to the fine
+	// structure constant, the electron mass and the light-quark mass
+	// (sensitivity: family; an absent one is uncoupled).
+	LambdaAlpha Energy `yaml:"lambda_alpha,omitempty"`
+	LambdaMe    Energy `yaml:"lambda_me,omitempty"`
+	LambdaMq    Energy `yaml:"lambda_mq,omitempty"`
+	// Convention of the sensitivity coefficients, "R" (default; atomic
+	// units) or "A" (absolute), see package inject.
 	Convention string `yaml:"convention,omitempty"`
+	// ReportFamily is the clock family whose Λ_eff and peak δν/ν go into
+	// events.csv, and that peak_dnu and step refer to (sensitivity: family;
+	// default rb).
+	ReportFamily string `yaml:"report_family,omitempty"`
 
 	// Population draws walls at random; Events gives them explicitly.
 	// Both may be used together.

@@ -121,7 +121,15 @@ func (s *Scenario) applyDefaults() {
 		w.Sign = 1
 	}
 	if w.Sensitivity == "" {
-		w.Sensitivity = "family"
+		w.Sensitivity = "unit"
+	}
+	if w.Sensitivity == "family" {
+		if w.Convention == "" {
+			w.Convention = "R"
+		}
+		if w.ReportFamily == "" {
+			w.ReportFamily = "rb"
+		}
 	}
 	if p := w.Population; p != nil {
 		if !p.ArrivalInterval.set {
@@ -381,8 +389,35 @@ func (w *Walls) validate(v *validator, span float64) {
 	if w.Sign != 1 && w.Sign != -1 {
 		v.add("walls.sign", "must be 1 or -1, got %d", w.Sign)
 	}
-	if w.Sensitivity != "family" && w.Sensitivity != "unit" {
-		v.add("walls.sensitivity", "%q: want family or unit", w.Sensitivity)
+	switch w.Sensitivity {
+	case "unit":
+		for name, q := range map[string]Energy{"lambda_alpha": w.LambdaAlpha, "lambda_me": w.LambdaMe, "lambda_mq": w.LambdaMq} {
+			if q.set {
+				v.add("walls."+name, "needs sensitivity: family (with sensitivity: unit only lambda_eff is used)")
+			}
+		}
+	case "family":
+		n := 0
+		for _, k := range []struct {
+			name string
+			q    Energy
+		}{{"lambda_alpha", w.LambdaAlpha}, {"lambda_me", w.LambdaMe}, {"lambda_mq", w.LambdaMq}} {
+			if k.q.set {
+				n++
+				v.positive("walls."+k.name, k.q.quantity, DimEnergy)
+			}
+		}
+		if n == 0 {
+			v.add("walls.sensitivity", "family needs at least one of lambda_alpha, lambda_me, lambda_mq")
+		}
+		if c := strings.ToUpper(w.Convention); c != "R" && c != "A" {
+			v.add("walls.convention", "%q: want R (atomic units) or A (absolute)", w.Convention)
+		}
+		if !oneOf(w.ReportFamily, ClockFamilies) {
+			v.add("walls.report_family", "unknown clock family %q; known: %s", w.ReportFamily, strings.Join(ClockFamilies, ", "))
+		}
+	default:
+		v.add("walls.sensitivity", "%q: want unit or family", w.Sensitivity)
 	}
 	if w.TypicalSpeed.si >= 299792458 {
 		v.addAt("walls.typical_speed", w.TypicalSpeed.line, "must be below the speed of light, got %s", showQ(w.TypicalSpeed.quantity, DimSpeed))
