@@ -1,0 +1,272 @@
+package orbits
+
+import (
+	"fmt"
+	"math"
+)
+
+// Per-system constants of the Keplerian user algorithm
+// (../shared/reference/gnss.md §1.1–1.3 table).
+const (
+	// MuGPS is the GPS/QZSS value of GM in m³/s² (IS-GPS-200 Table 20-IV).
+	MuGPS = 3.986005e14
+	// MuGalileo is the Galileo and BeiDou value of GM in m³/s² (Galileo OS
+	// SIS ICD §5.1.1; BDS-SIS-ICD-B1I §5.2.4.8, from memory).
+	MuGalileo = 3.986004418e14
+	// OmegaEGPS is the WGS 84 Earth rotation rate in rad/s used by GPS,
+	// Galileo and QZSS (IS-GPS-200 Table 20-IV).
+	OmegaEGPS = 7.2921151467e-5
+	// OmegaEBDS is the CGCS2000 Earth rotation rate in rad/s used by BeiDou
+	// (BDS-SIS-ICD-B1I §5.2.4.8, from memory).
+	OmegaEBDS = 7.2921150e-5
+)
+
+// KeplerFitUnlimited as a fit interval makes a record cover every epoch
+// (synthetic constellations).
+var KeplerFitUnlimited = math.Inf(1)
+
+// Kepler is a broadcast ephemeris record of GPS LNAV, QZSS LNAV, Galileo
+// I/NAV or F/NAV, or BeiDou D1/D2 type, and the record type of the
+// synthetic constellations. Angles are in radians, rates in rad/s, lengths
+// in metres, clock terms in s, s/s and s/s².
+type Kepler struct {
+	ID  SatID
+	Msg string // LNAV, INAV, FNAV, D1, D2, SYNTH
+
+	Toc           Time    // clock reference epoch (GPS time)
+	Af0, Af1, Af2 float64 // clock polynomial: s, s/s, s/s²
+
+	Toe    Time    // ephemeris reference epoch (GPS time)
+	SqrtA  float64 // √a in m^½
+	Ecc    float64 // eccentricity
+	M0     float64 // mean anomaly at toe
+	DeltaN float64 // mean motion difference, rad/s
+	Omega0 float64 // longitude of ascending node at the week start (GPS-like week of toe)
+	OmegaD float64 // rate of right ascension, rad/s
+	Omega  float64 // argument of perigee ω
+	I0     float64 // inclination at toe
+	IDot   float64 // inclination rate, rad/s
+	Cuc    float64 // latitude-argument harmonic corrections, rad
+	Cus    float64
+	Crc    float64 // radius harmonic corrections, m
+	Crs    float64
+	Cic    float64 // inclination harmonic corrections, rad
+	Cis    float64
+
+	IODE       int     // issue of data (IODE, IODnav, AODE)
+	Health     int     // health word (0 = healthy)
+	TGD        float64 // group delay TGD / BGD(E5a,E1) / TGD1, s
+	TGD2       float64 // BGD(E5b,E1) / TGD2, s
+	DataSource int     // Galileo data-source bits (RINEX 3.04 Table A8)
+	FitHours   float64 // fit interval half-width is FitHours/2 around toe; +Inf = unlimited
+	GEO        bool    // BeiDou GEO: use the GEO rotation of BDS-SIS-ICD §5.2.4.12
+
+	mu, omegaE float64 // set by Prepare
+	toeSOW     float64 // toe seconds of (system) week, s
+	prepared   bool
+}
+
+// Prepare fills the constants that depend on the system; the readers and
+// Walker call it, and PosVel calls it on an unprepared value (a copy).
+// It returns an error for an unknown system or unphysical elements.
+func (k *Kepler) Prepare() error {
+	switch k.ID.System() {
+	case 'G', 'J', 'I':
+		k.mu, k.omegaE = MuGPS, OmegaEGPS
+	case 'E':
+		k.mu, k.omegaE = MuGalileo, OmegaEGPS
+	case 'C':
+		k.mu, k.omegaE = MuGalileo, OmegaEBDS
+	default:
+		return fmt.Errorf("orbits: satellite %q: no Keplerian constants for system %q", k.ID, string(k.ID.System()))
+	}
+	if !(k.SqrtA > 1000) || math.IsInf(k.SqrtA, 0) {
+		return fmt.Errorf("orbits: satellite %q at %v: sqrt(A) = %g m^0.5 is not a valid orbit", k.ID, k.Toe, k.SqrtA)
+	}
+	if !(k.Ecc >= 0 && k.Ecc < 0.9) {
+		return fmt.Errorf("orbits: satellite %q at %v: eccentricity %g outside [0, 0.9)", k.ID, k.Toe, k.Ecc)
+	}
+	// Ω0 refers to the start of the week that holds toe. For BeiDou the
+	// week starts 14 s later on the GPS scale (BDT).
+	ref := k.Toe
+	if k.ID.System() == 'C' {
+		ref = ref.Add(-BDTOffset)
+	}
+	_, k.toeSOW = ref.WeekSOW()
+	k.prepared = true
+	return nil
+}
+
+// Sat returns the satellite id.
+func (k *Kepler) Sat() SatID { return k.ID }
+
+// Ref returns toe.
+func (k *Kepler) Ref() Time { return k.Toe }
+
+// ClockRef returns toc.
+func (k *Kepler) ClockRef() Time { return k.Toc }
+
+// Healthy reports Health == 0.
+func (k *Kepler) Healthy() bool { return k.Health == 0 }
+
+// Message returns the message type.
+func (k *Kepler) Message() string { return k.Msg }
+
+// fitSeconds returns the half-width of the fit interval in seconds.
+func (k *Kepler) fitSeconds() float64 {
+	h := k.FitHours
+	if h == 0 {
+		h = 4 // IS-GPS-200 §20.3.4.4: fit flag 0 ⇒ 4 h curve fit
+	}
+	return h * 3600 / 2
+}
+
+// Covers reports whether |t − toe| is within half the fit interval.
+func (k *Kepler) Covers(t Time) bool {
+	return math.Abs(t.Sub(k.Toe)) <= k.fitSeconds()
+}
+
+// ClockBias returns af0 + af1·(t−toc) + af2·(t−toc)² in seconds
+// (IS-GPS-200 §20.3.3.3.3.1), without the relativistic term.
+func (k *Kepler) ClockBias(t Time) float64 {
+	dt := t.Sub(k.Toc)
+	return k.Af0 + (k.Af1+k.Af2*dt)*dt
+}
+
+// Relativistic returns Δt_r = F·e·√A·sin E_k in seconds, F = −2√μ/c²
+// (IS-GPS-200 §20.3.3.3.3.1).
+func (k *Kepler) Relativistic(t Time) float64 {
+	kk := k.ensure()
+	tk := t.Sub(kk.Toe)
+	a := kk.SqrtA * kk.SqrtA
+	n := math.Sqrt(kk.mu/(a*a*a)) + kk.DeltaN
+	_, se, _ := solveKepler(kk.M0+n*tk, kk.Ecc)
+	f := -2 * math.Sqrt(kk.mu) / (SpeedOfLight * SpeedOfLight)
+	return f * kk.Ecc * kk.SqrtA * se
+}
+
+func (k *Kepler) ensure() *Kepler {
+	if k.prepared {
+		return k
+	}
+	c := *k
+	if err := c.Prepare(); err != nil {
+		c.mu, c.omegaE = MuGPS, OmegaEGPS
+	}
+	return &c
+}
+
+// solveKepler solves M = E − e·sin E for E and returns E, sin E, cos E.
+// It starts from E₀ = M + e·sin M and applies Newton steps, updating sin and
+// cos by the angle-addition formulas with a 5th-order Taylor series of the
+// (small) step, which keeps it to one library Sincos per call; it reaches
+// |ΔE| < 1e-15 rad in 3–4 steps for e ≤ 0.2 (IS-GPS-200 §20.3.3.4.3 gives
+// the Newton form; the incremental sin/cos update is our own).
+func solveKepler(m, e float64) (ea, se, ce float64) {
+	m = math.Remainder(m, 2*math.Pi)
+	sm := math.Sin(m)
+	ea = m + e*sm
+	se, ce = math.Sincos(ea)
+	for range 12 {
+		f := ea - e*se - m
+		d := -f / (1 - e*ce)
+		ea += d
+		if math.Abs(d) > 1e-2 {
+			se, ce = math.Sincos(ea)
+			continue
+		}
+		d2 := d * d
+		sd := d * (1 - d2/6*(1-d2/20))
+		cd := 1 - d2/2*(1-d2/12*(1-d2/30))
+		se, ce = se*cd+ce*sd, ce*cd-se*sd
+		if math.Abs(d) < 1e-15 {
+			break
+		}
+	}
+	return ea, se, ce
+}
+
+// PosVel returns the Earth-fixed position (m) and velocity (m/s) at GPS
+// epoch t by the user algorithm of IS-GPS-200 Table 20-IV (the BeiDou GEO
+// variant of BDS-SIS-ICD-B1I §5.2.4.12 when GEO is set). The velocity is the
+// analytic time derivative of the same expressions. It returns an error when
+// t is outside the fit interval.
+func (k *Kepler) PosVel(t Time) (pos, vel [3]float64, err error) {
+	if !k.Covers(t) {
+		return pos, vel, fmt.Errorf("orbits: %s ephemeris with toe %v does not cover %v (fit interval ±%.0f s)", k.ID, k.Toe, t, k.fitSeconds())
+	}
+	pos, vel = k.ensure().posVel(t.Sub(k.Toe))
+	return pos, vel, nil
+}
+
+// Pos returns the Earth-fixed position in metres at t without checking the
+// fit interval (used by the benchmark and by tight loops that checked
+// coverage already).
+func (k *Kepler) Pos(t Time) [3]float64 {
+	p, _ := k.ensure().posVel(t.Sub(k.Toe))
+	return p
+}
+
+func (k *Kepler) posVel(tk float64) (pos, vel [3]float64) {
+	a := k.SqrtA * k.SqrtA              // step 1 of Table 20-IV
+	n0 := math.Sqrt(k.mu / (a * a * a)) // step 1 of Table 20-IV
+	n := n0 + k.DeltaN                  // step 1 of Table 20-IV
+	mk := k.M0 + n*tk                   // step 3 of Table 20-IV
+	_, se, ce := solveKepler(mk, k.Ecc) // step 4 of Table 20-IV
+
+	q := math.Sqrt(1 - k.Ecc*k.Ecc)
+	den := 1 - k.Ecc*ce
+	nu := math.Atan2(q*se, ce-k.Ecc) // step 5 of Table 20-IV
+	phi := nu + k.Omega              // step 6 of Table 20-IV
+	s2, c2 := math.Sincos(2 * phi)
+	du := k.Cus*s2 + k.Cuc*c2
+	dr := k.Crs*s2 + k.Crc*c2
+	di := k.Cis*s2 + k.Cic*c2
+	u := phi + du // step 7 of Table 20-IV
+	r := a*den + dr
+	inc := k.I0 + di + k.IDot*tk
+	su, cu := math.Sincos(u)
+	xp, yp := r*cu, r*su // step 8 of Table 20-IV
+	si, ci := math.Sincos(inc)
+	edot := n / den // rates: time derivatives of steps 3–8
+	nudot := edot * q / den
+	udot := nudot * (1 + 2*(k.Cus*c2-k.Cuc*s2))
+	rdot := a*k.Ecc*se*edot + 2*nudot*(k.Crs*c2-k.Crc*s2)
+	idot := k.IDot + 2*nudot*(k.Cis*c2-k.Cic*s2)
+	xpd := rdot*cu - r*udot*su
+	ypd := rdot*su + r*udot*cu
+
+	if k.GEO {
+		// BDS GEO: node in an inertial-like frame, then Rz(Ω̇e·tk)·Rx(−5°).
+		om := k.Omega0 + k.OmegaD*tk - k.omegaE*k.toeSOW
+		so, co := math.Sincos(om)
+		gx := xp*co - yp*ci*so
+		gy := xp*so + yp*ci*co
+		gz := yp * si
+		gxd := xpd*co - ypd*ci*so + yp*si*so*idot - gy*k.OmegaD
+		gyd := xpd*so + ypd*ci*co - yp*si*co*idot + gx*k.OmegaD
+		gzd := ypd*si + yp*ci*idot
+		sf, cf := math.Sincos(-5 * math.Pi / 180)
+		qx, qy, qz := gx, cf*gy+sf*gz, -sf*gy+cf*gz
+		qxd, qyd, qzd := gxd, cf*gyd+sf*gzd, -sf*gyd+cf*gzd
+		th := k.omegaE * tk
+		st, ct := math.Sincos(th)
+		pos = [3]float64{ct*qx + st*qy, -st*qx + ct*qy, qz}
+		vel = [3]float64{ct*qxd + st*qyd + k.omegaE*pos[1], -st*qxd + ct*qyd - k.omegaE*pos[0], qzd}
+		return pos, vel
+	}
+
+	omd := k.OmegaD - k.omegaE
+	om := k.Omega0 + omd*tk - k.omegaE*k.toeSOW // 9
+	so, co := math.Sincos(om)
+	x := xp*co - yp*ci*so // 10
+	y := xp*so + yp*ci*co
+	z := yp * si
+	pos = [3]float64{x, y, z}
+	vel = [3]float64{
+		xpd*co - ypd*ci*so + yp*si*so*idot - y*omd,
+		xpd*so + ypd*ci*co - yp*si*co*idot + x*omd,
+		ypd*si + yp*ci*idot,
+	}
+	return pos, vel
+}
