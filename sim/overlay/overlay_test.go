@@ -1,0 +1,233 @@
+package overlay
+
+import (
+	"bytes"
+	"math"
+	"os"
+	"strings"
+	"testing"
+
+	"wallcross/inject"
+	"wallcross/internal/extdata"
+	"wallcross/orbits"
+)
+
+// Set A of ../shared/extdata (README.txt there): CODE MGEX final products
+// for 2021-04-28, a RINEX clock 3.04 file with 30 s satellite clocks
+// 19:30-20:30 GPST and its 5-min SP3 orbit 18:00-24:00.
+const (
+	setAClk = "set_A_2021-118_gps/COD0MGXFIN_20211180000_01D_30S_CLK.CLK"
+	setASP3 = "set_A_2021-118_gps/COD0MGXFIN_20211180000_01D_05M_ORB.SP3"
+)
+
+func loadSetA(t *testing.T) (*ClockFile, *orbits.SP3) {
+	t.Helper()
+	data, err := os.ReadFile(extdata.Path(t, setAClk))
+	if err != nil {
+		t.Fatal(err)
+	}
+	cf, err := ParseClockFile(setAClk, data)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sp3, err := orbits.ReadSP3File(extdata.Path(t, setASP3))
+	if err != nil {
+		t.Fatal(err)
+	}
+	return cf, sp3
+}
+
+func TestParseSetA(t *testing.T) {
+	cf, _ := loadSetA(t)
+	// Counts measured on the file: 15 899 AS/AR records (grep -c), 136
+	// receivers, one reference WAB200CHE (ANALYSIS CLK REF line).
+	if len(cf.Records) != 15899 {
+		t.Errorf("%d records, want 15899", len(cf.Records))
+	}
+	if len(cf.Refs) != 1 || cf.Refs[0] != "WAB200CHE" {
+		t.Errorf("refs %v, want [WAB200CHE]", cf.Refs)
+	}
+	// SOLN STA NAME / NUM of WAB200CHE: 4327318171 566956021 4636425977 mm.
+	if p := cf.Stations["WAB200CHE"]; p != [3]float64{4327318.171, 566956.021, 4636425.977} {
+		t.Errorf("WAB200CHE at %v m", p)
+	}
+	r := cf.Records[0]
+	if r.Type != "AR" || r.Name != "WAB200CHE" || r.Bias != 0.217267716775e-06 || r.Epoch != orbits.FromCalendar(2021, 4, 28, 19, 30, 0) {
+		t.Errorf("first record %+v", r)
+	}
+}
+
+// TestNoWallIsIdentity: with no wall the output is the input, byte for byte.
+func TestNoWallIsIdentity(t *testing.T) {
+	cf, sp3 := loadSetA(t)
+	res, err := Apply(cf, sp3, nil, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.Equal(res.Data, cf.Data) || res.Changed != 0 {
+		t.Errorf("no-wall overlay changed %d records", res.Changed)
+	}
+}
+
+func strongWall(t0 float64) inject.Wall {
+	// A Gaussian wall 1e4 km thick at 300 km/s with a 1 ns step for a
+	// unit-sensitivity clock; tilted so that every clock crosses at a
+	// different time.
+	n := [3]float64{0.3, -0.4, 0.866}
+	l := math.Sqrt(n[0]*n[0] + n[1]*n[1] + n[2]*n[2])
+	for k := range n {
+		n[k] /= l
+	}
+	w := inject.Wall{ID: 1, T0: t0, N: n, Speed: 3e5, Thickness: 1e7, Profile: inject.ProfileGaussian,
+		Coupling: inject.Coupling{Mode: inject.CouplingEff, LambdaEff: 1e11}}
+	a2, err := inject.AmplitudeSpec{Mode: inject.AmplitudeStep, Step: 1e-9}.Resolve(w.Profile, w.Coupling, w.Thickness, w.Speed)
+	if err != nil {
+		panic(err)
+	}
+	w.A2 = a2
+	return w
+}
+
+// TestWallChangesOnlyBiases: output − input equals the injected model at
+// every record to the printed precision, and every other byte is kept.
+func TestWallChangesOnlyBiases(t *testing.T) {
+	cf, sp3 := loadSetA(t)
+	res, err := Apply(cf, sp3, []inject.Wall{strongWall(1800)}, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.Changed < 5000 {
+		t.Errorf("only %d records changed by a 1 ns wall in mid-file", res.Changed)
+	}
+	out, err := ParseClockFile("out", res.Data)
+	if err != nil {
+		t.Fatal(err)
+	}
+	inBiasByte := make([]bool, len(cf.Data))
+	for k, r := range cf.Records {
+		for i := r.Start; i < r.End; i++ {
+			inBiasByte[i] = true
+		}
+		o := out.Records[k]
+		if o.Start != r.Start || o.Name != r.Name || o.Epoch != r.Epoch {
+			t.Fatalf("record %d moved", k)
+		}
+		got := o.Bias - r.Bias
+		want := res.Delta[k]
+		// Rounding to the printed 12 digits: within half a unit of the
+		// last digit of the new value.
+		tol := printedStep(string(res.Data[o.Start:o.End])) * (1 + 1e-9)
+		if math.Abs(got-want) > tol {
+			t.Fatalf("%s:%d %s: output − input = %.15e s, injected %.15e s (tolerance %.1e s)", setAClk, r.Line, r.Name, got, want, tol)
+		}
+	}
+	for i := range cf.Data {
+		if !inBiasByte[i] && cf.Data[i] != res.Data[i] {
+			t.Fatalf("byte %d outside any bias value changed: %q → %q", i, cf.Data[i], res.Data[i])
+		}
+	}
+	// The reference receiver (single ANALYSIS CLK REF) stays unchanged:
+	// its own crossing minus itself.
+	for k, r := range cf.Records {
+		if r.Name == "WAB200CHE" && res.Delta[k] != 0 {
+			t.Fatalf("reference clock changed by %g s", res.Delta[k])
+		}
+	}
+}
+
+// TestLagrangeLeaveOneOut: interpolating each interior SP3 epoch from the
+// others (the point left out) reproduces it to ≤ 5 mm RMS.
+func TestLagrangeLeaveOneOut(t *testing.T) {
+	_, sp3 := loadSetA(t)
+	orbs := OrbitsFromSP3(sp3, sp3.Epochs[0])
+	var sum float64
+	var n int
+	for _, o := range orbs {
+		for k := LagrangePoints / 2; k < len(o.T)-LagrangePoints/2; k++ {
+			loo := &Orbit{Sat: o.Sat, Origin: o.Origin}
+			loo.T = append(append([]float64{}, o.T[:k]...), o.T[k+1:]...)
+			loo.Pos = append(append([][3]float64{}, o.Pos[:k]...), o.Pos[k+1:]...)
+			p := loo.At(o.T[k])
+			d := math.Sqrt(sq(p[0]-o.Pos[k][0]) + sq(p[1]-o.Pos[k][1]) + sq(p[2]-o.Pos[k][2]))
+			sum += d * d
+			n++
+		}
+	}
+	rms := math.Sqrt(sum / float64(n))
+	t.Logf("leave-one-out RMS over %d interior satellite-epochs: %.2f mm", n, rms*1e3)
+	if n < 1000 || rms > 5e-3 {
+		t.Errorf("leave-one-out RMS %.2f mm over %d points, want ≤ 5 mm", rms*1e3, n)
+	}
+}
+
+func sq(x float64) float64 { return x * x }
+
+func TestInconsistentInputs(t *testing.T) {
+	cf, _ := loadSetA(t)
+	// Set B's SP3 is 2023-03-14: a different day.
+	other, err := orbits.ReadSP3File(extdata.Path(t, "set_B_2023-073_multi/COD0OPSRAP_20230730000_01D_05M_ORB.SP3"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, err = Apply(cf, other, []inject.Wall{strongWall(1800)}, Options{})
+	if err == nil || !strings.Contains(err.Error(), "must cover the clock epochs") {
+		t.Errorf("different-day SP3: error %v", err)
+	}
+	// GRG's SP3 of the same day has GPS and GLONASS only: Galileo,
+	// BeiDou and QZSS satellites lack orbits.
+	grg, err := orbits.ReadSP3File(extdata.Path(t, "set_A_2021-118_gps/grg21553.sp3"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, err = Apply(cf, grg, []inject.Wall{strongWall(1800)}, Options{})
+	if err == nil || !strings.Contains(err.Error(), "E01 (not in the SP3 file)") {
+		t.Errorf("missing satellites: error %v", err)
+	}
+	res, err := Apply(cf, grg, []inject.Wall{strongWall(1800)}, Options{SkipUnknown: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(res.Warnings) == 0 || !strings.Contains(strings.Join(res.Warnings, "\n"), "left unchanged: E01") {
+		t.Errorf("skip option: warnings %v", res.Warnings)
+	}
+}
+
+func TestParseErrors(t *testing.T) {
+	good := "     3.04           C                    M                      RINEX VERSION / TYPE\n" +
+		"WAB200CHE 14014M002                           0.000000000000E+00 ANALYSIS CLK REF    \n" +
+		"                                                                 END OF HEADER       \n"
+	for _, tc := range []struct{ name, data, want string }{
+		{"not clock", "hello\n", "not a RINEX clock file"},
+		{"version", strings.Replace(good, "3.04", "9.99", 1), "version 9.99 not supported"},
+		{"no end", good[:strings.Index(good, "     ")+170], "no END OF HEADER"},
+		{"bad record", good + "AS G05       2021 04 28 19 30  0.000000  2    0.1234X6789012E-03\n", `x:4: bad bias value`},
+		{"bad type", good + "XX G05       2021 04 28 19 30  0.000000  2    0.123456789012E-03\n", `x:4: unknown record type "XX"`},
+		{"bad epoch", good + "AS G05       2021 13 28 19 30  0.000000  2    0.123456789012E-03\n", `x:4: epoch out of range`},
+		{"short", good + "AS G05       2021 04 28 19 30  0.000000  2    0.1234\n", `x:4: line too short`},
+	} {
+		_, err := ParseClockFile("x", []byte(tc.data))
+		if err == nil || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("%s: error %v, want %q", tc.name, err, tc.want)
+		}
+	}
+}
+
+func TestFormatLike(t *testing.T) {
+	for _, tc := range []struct {
+		old  string
+		v    float64
+		want string
+	}{
+		{"  0.217267716775E-06", 0.217267716775e-06, "  0.217267716775E-06"},
+		{" -0.243088894647E-03", -0.243088894647e-03, " -0.243088894647E-03"},
+		{"  0.217267716775E-06", 0.2172677167754e-06 + 1e-9, "  0.218267716775E-06"},
+		{"  0.000000000000E+00", 0, "  0.000000000000E+00"},
+		{"  0.999999999999E-06", 0.9999999999999e-06, "  0.100000000000E-05"},
+		{"  1.234567E+01", -12.3456789, " -1.234568E+01"},
+	} {
+		got, err := formatLike(tc.old, tc.v)
+		if err != nil || got != tc.want {
+			t.Errorf("formatLike(%q, %g) = %q, %v; want %q", tc.old, tc.v, got, err, tc.want)
+		}
+	}
+}
