@@ -126,4 +126,3 @@ func (o *Orbit) checkGaps(t0, t1, maxGap float64) error {
 	}
 	return nil
 }
-
