@@ -1,0 +1,154 @@
+package inject
+
+import (
+	"fmt"
+	"math"
+)
+
+// Trajectory gives a clock's celestial-frame (GCRS-like, geocentric) position
+// in metres at t seconds since the run's start epoch. Walls use the same time
+// origin. It must be defined (finite) at every time the solver asks for,
+// which lies within a few hours of the wall's T0 for clocks within 1e8 m of
+// the geocentre.
+type Trajectory func(t float64) [3]float64
+
+// Crossing is one clock's encounter with one wall: everything needed to
+// render the clock's signal δν/ν(t) = Scale·s((t − TCross)/Tau).
+type Crossing struct {
+	Event    int     // wall id
+	Clock    string  // clock id
+	Family   string  // clock family
+	TCross   float64 // s since the run start: N·r(t) = v·(t − T0)
+	VRel     float64 // relative normal speed v − N·ṙ(TCross), m/s (> 0)
+	Tau      float64 // crossing time scale d/VRel, s
+	Profile  Profile
+	Scale    float64 // Γ·Aⁿ, dimensionless
+	Residual float64 // |N·r(TCross) − v·(TCross − T0)|/v, s
+}
+
+// CrossTolerance is the time tolerance of the crossing solver, s.
+const CrossTolerance = 1e-9
+
+// maxResidual is the largest accepted crossing residual, s (the 1 µs budget).
+const maxResidual = 1e-6
+
+// velocityStep is the half-step of the central difference for N·ṙ, s.
+const velocityStep = 0.5
+
+// Cross solves for the time at which the wall's centre plane meets the clock
+// on trajectory tr, N·r(t) = v·(t − T0), and returns the crossing with the
+// clock's signal scale for its family. The solver brackets the root of
+// f(t) = N·r(t) − v·(t − T0) (decreasing where |ṙ| < v) and refines it by
+// secant steps safeguarded by bisection to CrossTolerance; the residual
+// |f|/v must end below 1 µs.
+func (w *Wall) Cross(clock, family string, tr Trajectory) (Crossing, error) {
+	if err := w.Validate(); err != nil {
+		return Crossing{}, err
+	}
+	if tr == nil {
+		return Crossing{}, fmt.Errorf("inject: wall %d, clock %q: nil trajectory", w.ID, clock)
+	}
+	scale, err := w.Scale(family)
+	if err != nil {
+		return Crossing{}, fmt.Errorf("inject: wall %d, clock %q: %w", w.ID, clock, err)
+	}
+	tc, res, err := w.solve(tr)
+	if err != nil {
+		return Crossing{}, fmt.Errorf("inject: wall %d, clock %q: %w", w.ID, clock, err)
+	}
+	// v_rel = v − N·ṙ at the crossing (central difference).
+	p1, p2 := tr(tc+velocityStep), tr(tc-velocityStep)
+	ndot := (dot(w.N, p1) - dot(w.N, p2)) / (2 * velocityStep)
+	vrel := w.Speed - ndot
+	if !(vrel > 0) || math.IsInf(vrel, 0) {
+		return Crossing{}, fmt.Errorf("inject: wall %d, clock %q: relative normal speed %g m/s at t=%g s is not positive (clock faster than the wall?)", w.ID, clock, vrel, tc)
+	}
+	return Crossing{Event: w.ID, Clock: clock, Family: family, TCross: tc, VRel: vrel,
+		Tau: w.Thickness / vrel, Profile: w.Profile, Scale: scale, Residual: res}, nil
+}
+
+func dot(a, b [3]float64) float64 { return a[0]*b[0] + a[1]*b[1] + a[2]*b[2] }
+
+// solve returns the root of f(t) = N·r(t) − v(t − T0) and its residual |f|/v in s.
+func (w *Wall) solve(tr Trajectory) (float64, float64, error) {
+	f := func(t float64) float64 { return dot(w.N, tr(t)) - w.Speed*(t-w.T0) }
+	r0 := dot(w.N, tr(w.T0))
+	if math.IsNaN(r0) || math.IsInf(r0, 0) {
+		return 0, 0, fmt.Errorf("trajectory not finite at t=%g s", w.T0)
+	}
+	g := w.T0 + r0/w.Speed // straight-line first guess
+	fg := f(g)
+	if math.IsNaN(fg) || math.IsInf(fg, 0) {
+		return 0, 0, fmt.Errorf("trajectory not finite at t=%g s", g)
+	}
+	if fg == 0 {
+		return g, 0, nil
+	}
+	// Bracket: f(lo) > 0 > f(hi), expanding from the first guess.
+	step := math.Max(1, 2*math.Abs(fg)/w.Speed)
+	lo, hi := g, g
+	flo, fhi := fg, fg
+	for i := 0; ; i++ {
+		if flo > 0 && fhi < 0 {
+			break
+		}
+		if i == 80 {
+			return 0, 0, fmt.Errorf("could not bracket the crossing near t=%g s (trajectory faster than the wall, v=%g m/s?)", g, w.Speed)
+		}
+		if !(flo > 0) {
+			lo = g - step
+			flo = f(lo)
+		}
+		if !(fhi < 0) {
+			hi = g + step
+			fhi = f(hi)
+		}
+		if math.IsNaN(flo) || math.IsNaN(fhi) || math.IsInf(flo, 0) || math.IsInf(fhi, 0) {
+			return 0, 0, fmt.Errorf("trajectory not finite near t=%g s", g)
+		}
+		step *= 4
+	}
+	// Secant steps from the best end, safeguarded by bisection.
+	t, ft := g, fg
+	slope := -w.Speed // f′ ≈ −v (clock speed ≪ v)
+	for range 100 {
+		next := t - ft/slope
+		if !(next > lo && next < hi) {
+			next = 0.5 * (lo + hi)
+		}
+		fn := f(next)
+		if math.IsNaN(fn) || math.IsInf(fn, 0) {
+			return 0, 0, fmt.Errorf("trajectory not finite at t=%g s", next)
+		}
+		if fn > 0 {
+			lo = next
+		} else {
+			hi = next
+		}
+		if next != t {
+			if s := (fn - ft) / (next - t); s < 0 {
+				slope = s
+			}
+		}
+		dt := math.Abs(next - t)
+		t, ft = next, fn
+		if ft == 0 || dt < CrossTolerance || hi-lo < CrossTolerance {
+			break
+		}
+	}
+	res := math.Abs(ft) / w.Speed
+	if !(res < maxResidual) {
+		return 0, 0, fmt.Errorf("crossing residual %g s at t=%g s exceeds 1 µs", res, t)
+	}
+	return t, res, nil
+}
+
+// Step returns the total bias change ΔT = Scale·Tau·C_p in s the clock
+// accumulates over the whole crossing (physics.md §3.3; Gaussian:
+// √π·Γ·A²·d/v_rel). NaN for the linear kink, whose phase ramps.
+func (c Crossing) Step() float64 { return c.Scale * c.Tau * c.Profile.Area() }
+
+// Record returns the crossings.csv row of this crossing.
+func (c Crossing) Record() CrossingRecord {
+	return CrossingRecord{Event: c.Event, Clock: c.Clock, TCross: c.TCross, Step: c.Step()}
+}

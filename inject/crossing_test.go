@@ -1,0 +1,178 @@
+package inject
+
+import (
+	"math"
+	"math/rand/v2"
+	"testing"
+
+	"gonum.org/v1/gonum/floats/scalar"
+)
+
+func randomUnit(rng *rand.Rand) [3]float64 {
+	for {
+		v := [3]float64{rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64()}
+		if n := math.Sqrt(dot(v, v)); n > 1e-6 {
+			return [3]float64{v[0] / n, v[1] / n, v[2] / n}
+		}
+	}
+}
+
+// bisectCrossing is an independent reference: plain bisection of
+// N·r(t) − v(t − t0) on a wide bracket to 1e-10 s.
+func bisectCrossing(w Wall, tr Trajectory) float64 {
+	f := func(t float64) float64 { return dot(w.N, tr(t)) - w.Speed*(t-w.T0) }
+	lo, hi := w.T0-1e4, w.T0+1e4
+	for hi-lo > 1e-10 {
+		m := 0.5 * (lo + hi)
+		if f(m) > 0 {
+			lo = m
+		} else {
+			hi = m
+		}
+	}
+	return 0.5 * (lo + hi)
+}
+
+// Residual below 1 µs on many random cases (satellites on circular orbits
+// from LEO to GEO and rotating ground stations; wall speeds 20–800 km/s),
+// and agreement with an independent bisection.
+func TestCrossingResidualRandom(t *testing.T) {
+	rng := rand.New(rand.NewPCG(7, 11))
+	for i := range 400 {
+		var tr Trajectory
+		var kind string
+		if i%4 == 3 {
+			tr = station(6.371e6, math.Asin(2*rng.Float64()-1), 2*math.Pi*rng.Float64())
+			kind = "station"
+		} else {
+			a := 7e6 + 3.6e7*rng.Float64()
+			tr = circularOrbit(a, math.Pi*rng.Float64(), 2*math.Pi*rng.Float64(), 2*math.Pi*rng.Float64())
+			kind = "satellite"
+		}
+		v := 2e4 + 7.8e5*rng.Float64()
+		w := effWall(randomUnit(rng), v, 1e6, 86400*rng.Float64(), 1e9, 1e12, ProfileGaussian)
+		c, err := w.Cross("C", "rb", tr)
+		if err != nil {
+			t.Fatalf("case %d (%s, v=%g m/s): %v", i, kind, v, err)
+		}
+		res := math.Abs(dot(w.N, tr(c.TCross))-w.Speed*(c.TCross-w.T0)) / w.Speed
+		if res >= 1e-6 {
+			t.Errorf("case %d (%s): residual %g s", i, kind, res)
+		}
+		if ref := bisectCrossing(w, tr); math.Abs(ref-c.TCross) > 1e-6 {
+			t.Errorf("case %d (%s): t_cross %.9f s, bisection %.9f s", i, kind, c.TCross, ref)
+		}
+		// v_rel = v − N·ṙ, with ṙ from the analytic orbit speed bound.
+		if c.VRel < v-8e3 || c.VRel > v+8e3 {
+			t.Errorf("case %d: v_rel %g m/s far from v %g m/s", i, c.VRel, v)
+		}
+	}
+}
+
+// The sweep across a GPS-like constellation lasts about 2a/v (physics.md
+// §3.5: a = 26 560 km, 177 s at 300 km/s). Since |N·r| ≤ a, every crossing
+// lies within a/v of t0, so the sweep cannot exceed 2a/v; with 6 planes × 30
+// satellites it comes within a few per cent of it.
+func TestGPSSweepDuration(t *testing.T) {
+	const a, v = 26.56e6, 3e5
+	rng := rand.New(rand.NewPCG(3, 5))
+	for trial := range 5 {
+		w := effWall(randomUnit(rng), v, 1e7, 3600, 7.47e9, 1e13, ProfileGaussian)
+		first, last := math.Inf(1), math.Inf(-1)
+		for plane := range 6 {
+			for s := range 30 {
+				tr := circularOrbit(a, 55*math.Pi/180, float64(plane)*math.Pi/3, float64(s)*2*math.Pi/30+float64(plane)*0.2)
+				c, err := w.Cross("G", "gps-iif-rb", tr)
+				if err != nil {
+					t.Fatal(err)
+				}
+				first, last = math.Min(first, c.TCross), math.Max(last, c.TCross)
+			}
+		}
+		sweep := last - first
+		if sweep > 2*a/v+1e-6 || sweep < 0.9*2*a/v {
+			t.Errorf("trial %d: sweep %.2f s, want ≤ 2a/v = %.2f s and close to it", trial, sweep, 2*a/v)
+		}
+		if !scalar.EqualWithinAbs(2*a/v, 177, 0.5) {
+			t.Errorf("2a/v = %g s, physics.md §3.5 gives 177 s", 2*a/v)
+		}
+	}
+}
+
+// A clock at rest at the geocentre is crossed exactly at t0; a clock at rest
+// at distance D along N at t0 + D/v, with v_rel = v.
+func TestCrossingStatic(t *testing.T) {
+	w := effWall([3]float64{0, 0.6, 0.8}, 2.5e5, 1e6, 42, 1e9, 1e12, ProfileTopHat)
+	for _, D := range []float64{0, 1e7, -3e7} {
+		pos := [3]float64{5e6, 0.6 * D, 0.8 * D} // x component ⊥ N
+		c, err := w.Cross("S", "cs", func(float64) [3]float64 { return pos })
+		if err != nil {
+			t.Fatal(err)
+		}
+		if want := 42 + D/2.5e5; !scalar.EqualWithinAbs(c.TCross, want, 1e-9) {
+			t.Errorf("D=%g m: t_cross %.12g s, want %.12g s", D, c.TCross, want)
+		}
+		if !scalar.EqualWithinRel(c.VRel, 2.5e5, 1e-12) {
+			t.Errorf("D=%g m: v_rel %g m/s", D, c.VRel)
+		}
+	}
+}
+
+// Earth rotation and satellite motion shift crossing times at the 1 % level
+// (physics.md §3.1): a clock moving toward the wall along N at speed u is
+// crossed at t0 + D/(v + u) instead of t0 + D/v, with v_rel = v + u.
+func TestCrossingMovingClock(t *testing.T) {
+	const v, u, D = 3e5, 3.9e3, 2.6e7
+	w := effWall([3]float64{1, 0, 0}, v, 1e7, 0, 1e9, 1e12, ProfileGaussian)
+	tr := func(t float64) [3]float64 { return [3]float64{D - u*t, 1e6, 0} }
+	c, err := w.Cross("M", "rb", tr)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want := D / (v + u); !scalar.EqualWithinAbs(c.TCross, want, 1e-9) {
+		t.Errorf("t_cross %.12g s, want %.12g s", c.TCross, want)
+	}
+	if !scalar.EqualWithinRel(c.VRel, v+u, 1e-12) {
+		t.Errorf("v_rel %.12g m/s, want %.12g", c.VRel, v+u)
+	}
+	if !scalar.EqualWithinRel(c.Tau, 1e7/(v+u), 1e-12) {
+		t.Errorf("tau %g s", c.Tau)
+	}
+}
+
+// Bad walls and trajectories give errors, not panics.
+func TestCrossingErrors(t *testing.T) {
+	good := effWall([3]float64{1, 0, 0}, 3e5, 1e7, 0, 1e9, 1e12, ProfileGaussian)
+	origin := func(float64) [3]float64 { return [3]float64{} }
+	for name, mod := range map[string]func(w *Wall){
+		"zero speed":      func(w *Wall) { w.Speed = 0 },
+		"speed above c":   func(w *Wall) { w.Speed = 4e8 },
+		"non-unit normal": func(w *Wall) { w.N = [3]float64{1, 1, 0} },
+		"zero thickness":  func(w *Wall) { w.Thickness = 0 },
+		"no profile":      func(w *Wall) { w.Profile = 0 },
+		"negative A2":     func(w *Wall) { w.A2 = -1 },
+		"NaN t0":          func(w *Wall) { w.T0 = math.NaN() },
+		"no coupling":     func(w *Wall) { w.Coupling = Coupling{} },
+	} {
+		w := good
+		mod(&w)
+		if _, err := w.Cross("C", "rb", origin); err == nil {
+			t.Errorf("%s: accepted", name)
+		}
+	}
+	if _, err := good.Cross("C", "sundial", origin); err == nil {
+		t.Error("unknown family accepted")
+	}
+	if _, err := good.Cross("C", "rb", nil); err == nil {
+		t.Error("nil trajectory accepted")
+	}
+	nan := func(float64) [3]float64 { return [3]float64{math.NaN(), 0, 0} }
+	if _, err := good.Cross("C", "rb", nan); err == nil {
+		t.Error("NaN trajectory accepted")
+	}
+	// A clock outrunning the wall along N is never crossed.
+	fast := func(t float64) [3]float64 { return [3]float64{1e6 + 4e5*t, 0, 0} }
+	if _, err := good.Cross("C", "rb", fast); err == nil {
+		t.Error("clock faster than the wall accepted")
+	}
+}
