@@ -26,7 +26,7 @@ func edfGreenhallRiley(alpha, d, m int, f, s float64, n int) float64 {
 		return math.NaN()
 	}
 	mm := 1 + math.Floor(s*(float64(n)-l)/fm) // M
-	j := math.Min(mm, float64(d+1)*s)           // J
+	j := math.Min(mm, float64(d+1)*s)         // J
 	const jmax = 100.0
 	r := mm / s
 	var inv float64

@@ -21,7 +21,9 @@ const (
 )
 
 // Stats lists all statistics in a fixed order.
-func Stats() []Stat { return []Stat{StatADEV, StatOADEV, StatMDEV, StatTDEV, StatHDEV, StatOHDEV, StatTOTDEV} }
+func Stats() []Stat {
+	return []Stat{StatADEV, StatOADEV, StatMDEV, StatTDEV, StatHDEV, StatOHDEV, StatTOTDEV}
+}
 
 // ParseStat parses a statistic name (case-insensitive).
 func ParseStat(s string) (Stat, error) {
