@@ -34,6 +34,9 @@ func TestOverlayCommand(t *testing.T) {
 	if code != exitOK {
 		t.Fatalf("exit %d: %s", code, errOut)
 	}
+	if !strings.Contains(out, "records changed by 1 walls") || strings.HasPrefix(out, "0 of") {
+		t.Errorf("stdout %q", out)
+	}
 	for _, f := range []string{"events.csv", "crossings.csv", "manifest.json"} {
 		if _, err := os.Stat(filepath.Join(dir2, f)); err != nil {
 			t.Errorf("missing %s", f)
