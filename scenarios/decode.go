@@ -68,26 +68,45 @@ func Decode(file string, data []byte) (*Scenario, error) {
 	if len(data) > maxScenarioBytes {
 		return nil, Problems{{File: file, Msg: fmt.Sprintf("file is %d bytes, larger than the %d-byte limit", len(data), maxScenarioBytes)}}
 	}
+	var s Scenario
+	ps, lines := decodeStrict(file, data, &s)
+	if lines == nil {
+		return nil, ps
+	}
+	s.applyDefaults()
+	v := validator{file: file, lines: *lines}
+	s.validate(&v)
+	ps = append(ps, v.ps...)
+	if len(ps) > 0 {
+		sortProblems(ps)
+		return &s, ps
+	}
+	return &s, nil
+}
+
+// decodeStrict decodes one YAML document into out with unknown keys as
+// errors, collecting every decoding problem. A nil pathLines means the
+// file could not be decoded at all.
+func decodeStrict(file string, data []byte, out any) (Problems, *pathLines) {
 	// First pass: the node tree, for the line of every field path.
 	var root yaml.Node
 	if err := yaml.Unmarshal(data, &root); err != nil {
-		return nil, Problems{syntaxProblem(file, err)}
+		return Problems{syntaxProblem(file, err)}, nil
 	}
 	if root.Kind == 0 || len(root.Content) == 0 {
-		return nil, Problems{{File: file, Line: 1, Msg: "empty scenario: want a mapping with at least name, time and stations"}}
+		return Problems{{File: file, Line: 1, Msg: "empty file: want a YAML mapping"}}, nil
 	}
 	lines := pathLines{byPath: map[string]int{}, byPos: map[[2]int]string{}}
 	lines.walk(root.Content[0], "")
 
-	var s Scenario
 	dec := yaml.NewDecoder(bytes.NewReader(data))
 	dec.KnownFields(true)
 	var ps Problems
-	err := dec.Decode(&s)
+	err := dec.Decode(out)
 	if err != nil && !errors.Is(err, io.EOF) {
 		var te *yaml.TypeError
 		if !errors.As(err, &te) {
-			return nil, Problems{syntaxProblem(file, err)}
+			return Problems{syntaxProblem(file, err)}, nil
 		}
 		for _, msg := range te.Errors {
 			ps = append(ps, lines.problem(file, msg))
@@ -96,17 +115,13 @@ func Decode(file string, data []byte) (*Scenario, error) {
 	// A second document would be silently ignored: refuse it.
 	var extra yaml.Node
 	if err := dec.Decode(&extra); err == nil {
-		ps = append(ps, Problem{File: file, Line: extra.Line, Msg: "more than one YAML document; a scenario file holds exactly one"})
+		ps = append(ps, Problem{File: file, Line: extra.Line, Msg: "more than one YAML document; a file holds exactly one"})
 	}
-	s.applyDefaults()
-	v := validator{file: file, lines: lines}
-	s.validate(&v)
-	ps = append(ps, v.ps...)
-	if len(ps) > 0 {
-		sort.SliceStable(ps, func(i, j int) bool { return ps[i].Line < ps[j].Line })
-		return &s, ps
-	}
-	return &s, nil
+	return ps, &lines
+}
+
+func sortProblems(ps Problems) {
+	sort.SliceStable(ps, func(i, j int) bool { return ps[i].Line < ps[j].Line })
 }
 
 var lineRE = regexp.MustCompile(`^(?:yaml: )?line (\d+)(?: column (\d+))?: (.*)$`)

@@ -108,7 +108,7 @@ func TestDecodeMoreProblems(t *testing.T) {
 	for _, tc := range []struct {
 		name, src, want string
 	}{
-		{"empty", "", "empty scenario"},
+		{"empty", "", "empty file"},
 		{"syntax", "name: [unclosed\n", "YAML syntax"},
 		{"no name", "time: {start: 2026-01-01T00:00:00}\nconstellations: [{kind: gps-like}]\nstations: [{id: A, lat: 1 deg, lon: 2 deg, reference: true}]\n", "name: missing"},
 		{"bad kind", "name: x\ntime: {start: 2026-01-01}\nconstellations: [{kind: glonass}]\nstations: [{id: A, lat: 1 deg, lon: 2 deg, reference: true}]\n", "want gps-like or galileo-like"},
@@ -140,5 +140,42 @@ func TestDefaults(t *testing.T) {
 	}
 	if s.Reference.Clock != "A" || s.Stations[0].Clock != "hmaser" || s.Walls.Profile != "gaussian" {
 		t.Errorf("reference %q, station clock %q, profile %q", s.Reference.Clock, s.Stations[0].Clock, s.Walls.Profile)
+	}
+}
+
+func TestDecodeCampaign(t *testing.T) {
+	src := `name: c1
+scenario: check-single-wall
+window: 2 h
+trials: 10
+background_trials: 200
+grid:
+  thickness: [1e3 km, 1e4 km]
+  step: [0.1 ns, 1 ns, 10 ns]
+`
+	c, err := DecodeCampaign("c.yaml", []byte(src))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if c.Cells() != 6 || c.Seed != 1 || c.FalseAlarm != 0.01 || c.Background != "noise" || len(c.Grid.Speed) != 1 {
+		t.Errorf("campaign %+v", c)
+	}
+	if c.Hash([]byte("a")) == c.Hash([]byte("b")) || c.Hash([]byte("a")) != c.Hash([]byte("a")) {
+		t.Error("hash does not follow the scenario source")
+	}
+	bad := `name: c1
+scenario: demo
+window: 1 min
+grid:
+  thickness: [-1 km]
+  step: [1 ns]
+  lambda_eff: [1e11 GeV]
+background: shuffled
+`
+	_, err = DecodeCampaign("bad.yaml", []byte(bad))
+	for _, want := range []string{"bad.yaml:3: window: must be at least 10 min", "bad.yaml:5: grid.thickness[0]: must be positive", "give grid.step or grid.lambda_eff, not both", "bad.yaml:8: background: \"shuffled\""} {
+		if err == nil || !strings.Contains(err.Error(), want) {
+			t.Errorf("error %v lacks %q", err, want)
+		}
 	}
 }
