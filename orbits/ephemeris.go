@@ -2,6 +2,7 @@ package orbits
 
 import (
 	"fmt"
+	"math"
 	"strconv"
 )
 
@@ -79,3 +80,6 @@ const SpeedOfLight = 299792458.0
 func relativisticFromState(r, v [3]float64) float64 {
 	return -2 * (r[0]*v[0] + r[1]*v[1] + r[2]*v[2]) / (SpeedOfLight * SpeedOfLight)
 }
+
+// norm returns the Euclidean length of v.
+func norm(v [3]float64) float64 { return math.Sqrt(v[0]*v[0] + v[1]*v[1] + v[2]*v[2]) }

@@ -90,10 +90,16 @@ func (g *Glonass) PosVel(t Time) (pos, vel [3]float64, err error) {
 	if math.Abs(dt) > glonassFit {
 		return pos, vel, fmt.Errorf("orbits: %s ephemeris with tb %v does not cover %v (|t−tb| ≤ 900 s)", g.ID, g.Tb, t)
 	}
+	pos, vel = g.integrate(dt)
+	return pos, vel, nil
+}
+
+// integrate runs RK4 over dt seconds from tb without the fit-interval check.
+func (g *Glonass) integrate(dt float64) (pos, vel [3]float64) {
 	pos, vel = g.Pos, g.Vel
 	n := int(math.Ceil(math.Abs(dt)/glonassStep - 1e-12))
 	if n == 0 {
-		return pos, vel, nil
+		return pos, vel
 	}
 	h := dt / float64(n)
 	add := func(a [3]float64, s float64, b [3]float64) [3]float64 {
@@ -116,5 +122,5 @@ func (g *Glonass) PosVel(t Time) (pos, vel [3]float64, err error) {
 			vel[i] += h / 6 * (k1v[i] + 2*k2v[i] + 2*k3v[i] + k4v[i])
 		}
 	}
-	return pos, vel, nil
+	return pos, vel
 }

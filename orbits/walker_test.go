@@ -8,8 +8,6 @@ import (
 	"gonum.org/v1/gonum/floats/scalar"
 )
 
-func norm(v [3]float64) float64 { return math.Sqrt(v[0]*v[0] + v[1]*v[1] + v[2]*v[2]) }
-
 func TestWalkerGPS(t *testing.T) {
 	ep := FromCalendar(2026, 1, 1, 0, 0, 0)
 	cfg := GPSWalkerConfig(ep)
