@@ -63,7 +63,6 @@ func readTable(r io.Reader, name string, required ...string) (*table, error) {
 	return t, nil
 }
 
-
 // str returns the trimmed cell of row i in column col ("" if absent).
 func (t *table) str(i int, col string) string {
 	j, ok := t.col[col]
