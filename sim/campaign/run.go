@@ -49,14 +49,14 @@ type ShardManifest struct {
 // Settings are the campaign quantities every shard records, so that a
 // merge needs nothing but the shard directories.
 type Settings struct {
-	Trials     int        `json:"trials"`       // total trial count
-	PerCell    int        `json:"per_cell"`     // injection trials per cell
-	Background string     `json:"background"`   // background kind
-	FalseAlarm float64    `json:"false_alarm"`  // target per-trial false-alarm probability (0: fixed threshold)
-	Threshold  float64    `json:"threshold"`    // fixed threshold (0: from the background)
-	Cells      []CellInfo `json:"cells"`        // the grid
-	Profile    string     `json:"profile"`      // wall profile
-	SpanDays   float64    `json:"window_days"`  // span of one trial, d
+	Trials     int        `json:"trials"`      // total trial count
+	PerCell    int        `json:"per_cell"`    // injection trials per cell
+	Background string     `json:"background"`  // background kind
+	FalseAlarm float64    `json:"false_alarm"` // target per-trial false-alarm probability (0: fixed threshold)
+	Threshold  float64    `json:"threshold"`   // fixed threshold (0: from the background)
+	Cells      []CellInfo `json:"cells"`       // the grid
+	Profile    string     `json:"profile"`     // wall profile
+	SpanDays   float64    `json:"window_days"` // span of one trial, d
 }
 
 // CellInfo is one grid cell with both amplitude measures filled in.
