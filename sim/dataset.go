@@ -92,15 +92,6 @@ type Nuisance struct {
 	Value    float64 // size: s for phase jumps, outliers and batch steps; dimensionless for frequency jumps; 0 otherwise
 }
 
-// SatOrbits holds satellite positions for orbits.sp3.
-type SatOrbits struct {
-	Start    orbits.Time    // first epoch (GPS time)
-	Interval float64        // epoch interval, s
-	Sats     []string       // satellite ids, e.g. "G01"
-	Pos      [][][3]float64 // [epoch][satellite] Earth-fixed position, m; NaN = missing
-	Clock    [][]float64    // optional [epoch][satellite] clock bias, s; nil or NaN = missing
-}
-
 // Dataset is one synthetic clock product with its truth catalogue.
 type Dataset struct {
 	// ToolVersion identifies the program that made the dataset.
@@ -121,8 +112,9 @@ type Dataset struct {
 	// Bias is the row-major matrix [Epochs × len(Clocks)] of clock biases
 	// relative to the reference, s; NaN marks a gap.
 	Bias []float64
-	// Orbits holds satellite positions for orbits.sp3 (may be nil).
-	Orbits *SatOrbits
+	// Orbits holds the satellite positions written to orbits.sp3 (may be
+	// nil: no SP3 file).
+	Orbits *orbits.SP3
 	// Stations lists the ground stations.
 	Stations []StationInfo
 	// Events, Crossings and Nuisances form the truth catalogue.

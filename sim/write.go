@@ -94,8 +94,7 @@ func WriteDir(dir string, d *Dataset, opt WriteOptions) (paths []string, err err
 		{RinexFile, opt.SkipRINEX, WriteRinexClock},
 		{CSVFile, opt.SkipCSV, WriteClocksCSV},
 		{NPYFile, opt.SkipNPY, WriteClocksNPY},
-		// TODO(orbits.sp3): add the SP3 file once package orbits has its
-		// SP3-d writer; sim must not carry its own.
+		{SP3File, opt.SkipSP3 || d.Orbits == nil, WriteOrbitsSP3},
 		{StationsFile, false, WriteStationsCSV},
 		{EventsFile, false, WriteEventsCSV},
 		{CrossingsFile, false, WriteCrossingsCSV},
@@ -356,5 +355,16 @@ func WriteNuisancesCSV(path string, d *Dataset) (FileSum, error) {
 		}
 		_, err := w.Write(b)
 		return err
+	})
+}
+
+// WriteOrbitsSP3 writes orbits.sp3 (SP3-d, by package orbits) from
+// d.Orbits.
+func WriteOrbitsSP3(path string, d *Dataset) (FileSum, error) {
+	if d.Orbits == nil {
+		return FileSum{}, fmt.Errorf("sim: dataset has no satellite orbits for %s", path)
+	}
+	return writeAtomic(path, func(w *bufio.Writer) error {
+		return orbits.WriteSP3(w, d.Orbits)
 	})
 }
