@@ -23,6 +23,7 @@ func main() {
 func commands() []*command {
 	return []*command{
 		newScenarioCmd(),
+		newOrbitCmd(),
 		newOverlayCmd(),
 		newVersionCmd(),
 	}
