@@ -25,6 +25,8 @@ func commands() []*command {
 		newScenarioCmd(),
 		newOrbitCmd(),
 		newOverlayCmd(),
+		newScoreCmd(),
+		newReachCmd(),
 		newVersionCmd(),
 	}
 }

@@ -1,0 +1,87 @@
+package main
+
+import (
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// The hand-made dataset of sim/score (one day, 4 clocks, 8 walls).
+const (
+	scoreDS    = "../../sim/score/testdata/ds1"
+	scoreCands = "../../sim/score/testdata/candidates1.csv"
+)
+
+func TestScoreCommand(t *testing.T) {
+	dir := t.TempDir()
+	code, out, errOut := runCLI(t, "score", scoreDS, scoreCands, "--out", dir)
+	if code != exitOK {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	for _, want := range []string{"found / missed    6 / 1", "1 in gaps", "3 false alarms = 3 per day", "2·R_max/v_min"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("stdout lacks %q:\n%s", want, out)
+		}
+	}
+	for _, f := range []string{"summary.json", "matches.csv", "efficiency.csv", "roc.csv"} {
+		if _, err := os.Stat(filepath.Join(dir, f)); err != nil {
+			t.Error(err)
+		}
+	}
+	b, _ := os.ReadFile(filepath.Join(dir, "efficiency.csv"))
+	if !strings.HasPrefix(string(b), "thickness_m,speed_m_s,lambda_eff_gev,step_s,n,found,eff,wilson_low,wilson_high,cp_low,cp_high\n") {
+		t.Errorf("efficiency.csv header:\n%s", b)
+	}
+	// Threshold and direction test.
+	code, out, errOut = runCLI(t, "score", scoreDS, scoreCands, "--threshold", "3", "--direction-tol", "30")
+	if code != exitOK || !strings.Contains(out, "found / missed    4 / 3") || !strings.Contains(out, "stat ≥ 3") {
+		t.Errorf("exit %d, stdout:\n%s\nstderr: %s", code, out, errOut)
+	}
+}
+
+func TestScoreUsage(t *testing.T) {
+	for _, args := range [][]string{
+		{"score"},
+		{"score", scoreDS},
+		{"score", scoreDS, scoreCands, "extra"},
+		{"score", scoreDS, scoreCands, "--window", "-5"},
+		{"score", scoreDS, scoreCands, "--window", "abc"},
+		{"score", scoreDS, scoreCands, "--direction-tol", "200"},
+		{"score", scoreDS, scoreCands, "--threshold", "NaN"},
+		{"score", scoreDS, scoreCands, "--no-such-flag"},
+	} {
+		if code, _, errOut := runCLI(t, args...); code != exitUsage {
+			t.Errorf("%v: exit %d, want 2 (%s)", args, code, errOut)
+		}
+	}
+}
+
+func TestScoreBadCandidates(t *testing.T) {
+	dir := t.TempDir()
+	for _, c := range []struct{ content, want string }{
+		{"t0_s,stat\n100,5\n200,high\n", `bad.csv:3: column stat: bad number "high"`},
+		{"time,stat\n100,5\n", `bad.csv:1: missing required column "t0_s"`},
+		{"t0_s,stat,nx,ny,nz\n100,5,1,0\n", "bad.csv: record on line 2: wrong number of fields"},
+		{"t0_s,stat,nx,ny,nz\n100,5,1,,\n", "bad.csv:2: columns nx,ny,nz: give all three"},
+	} {
+		p := filepath.Join(dir, "bad.csv")
+		if err := os.WriteFile(p, []byte(c.content), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		code, _, errOut := runCLI(t, "score", scoreDS, p)
+		if code != exitFailure || !strings.Contains(errOut, c.want) {
+			t.Errorf("%q: exit %d, stderr %q; want 1 and %q", c.content, code, errOut, c.want)
+		}
+	}
+	// Directions requested but none given.
+	p := filepath.Join(dir, "nodir.csv")
+	os.WriteFile(p, []byte("t0_s,stat\n5000,1\n"), 0o644)
+	if code, _, errOut := runCLI(t, "score", scoreDS, p, "--direction-tol", "10"); code != exitFailure || !strings.Contains(errOut, "no nx,ny,nz") {
+		t.Errorf("exit %d, stderr %q", code, errOut)
+	}
+	// Missing dataset.
+	if code, _, errOut := runCLI(t, "score", filepath.Join(dir, "none"), scoreCands); code != exitFailure || !strings.Contains(errOut, "events.csv") {
+		t.Errorf("exit %d, stderr %q", code, errOut)
+	}
+}
