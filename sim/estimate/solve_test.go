@@ -1,0 +1,186 @@
+package estimate
+
+import (
+	"math"
+	"math/rand/v2"
+	"strings"
+	"testing"
+	"time"
+)
+
+// TestNoiseFreeRecovery: noise-free, wall-free observations give back the
+// true clocks relative to the reference to ≤ 1 ps (the issue's acceptance
+// criterion), with troposphere and elevation weighting on.
+func TestNoiseFreeRecovery(t *testing.T) {
+	net := testNetwork(24, 12)
+	rng := rand.New(rand.NewPCG(1, 2))
+	const epochs, interval = 120, 30.0
+	truth := testTruth(net, epochs, interval, rng)
+	t0 := time.Now()
+	obs, err := Simulate(net, truth, ObsConfig{Interval: interval, Epochs: epochs, Troposphere: true}, rng)
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Logf("%d observations in %v", obs.Len(), time.Since(t0))
+	for _, ref := range []string{"STAC", "G05"} {
+		sol, err := Solve(obs, SolveConfig{Reference: ref, ElevationWeighting: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		worst, n := 0.0, 0
+		for k := range epochs {
+			for j, id := range sol.Clocks {
+				v := sol.At(k, j)
+				if math.IsNaN(v) {
+					continue
+				}
+				n++
+				worst = math.Max(worst, math.Abs(v-relTruth(truth, k, id, ref)))
+			}
+		}
+		if worst > 1e-12 {
+			t.Errorf("ref %s: worst estimation error %.3g s, want ≤ 1 ps", ref, worst)
+		}
+		if want := epochs * len(sol.Clocks); n < want*95/100 {
+			t.Errorf("ref %s: only %d of %d clock epochs estimated", ref, n, want)
+		}
+		if sol.PhaseRejected != 0 || sol.CodeRejected != 0 {
+			t.Errorf("ref %s: %d phase and %d code rejections on noise-free data", ref, sol.PhaseRejected, sol.CodeRejected)
+		}
+		t.Logf("ref %s: worst error %.3g s over %d clock epochs, %d segments", ref, worst, n, sol.Segments)
+	}
+}
+
+// TestReferenceRequired: the rank defect needs a reference; a missing or
+// unknown reference is a clear error.
+func TestReferenceRequired(t *testing.T) {
+	obs := handObs(func(int, int, int) float64 { return 0 })
+	for _, c := range []struct{ ref, want string }{
+		{"", "no reference clock"},
+		{"NOPE", `reference clock "NOPE" is not in the network`},
+	} {
+		_, err := Solve(obs, SolveConfig{Reference: c.ref})
+		if err == nil || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("reference %q: error %v, want one containing %q", c.ref, err, c.want)
+		}
+	}
+}
+
+// handObs builds the hand-solvable network of TestWallTransferHand: stations
+// A (index 0), B (1); satellites S1 (0), S2 (1) seen by both, S3 (2) seen by
+// B only, over 6 epochs; delay(k, sat, sta) is the link delay in s. True
+// clocks are zero, geometry is an arbitrary known range.
+func handObs(delay func(k, sat, sta int) float64) *Observations {
+	o := &Observations{Interval: 30, Epochs: 6, Satellites: []string{"S1", "S2", "S3"}, Stations: []string{"A", "B"}}
+	links := [][2]int{{0, 0}, {1, 0}, {0, 1}, {1, 1}, {2, 1}}
+	for k := range o.Epochs {
+		o.Start = append(o.Start, len(o.Sat))
+		for _, l := range links {
+			rho := 2.2e7 + 1e3*float64(l[0]+3*l[1]) + 50*float64(k)
+			d := speedOfLight * delay(k, l[0], l[1])
+			o.Sat = append(o.Sat, int16(l[0]))
+			o.Sta = append(o.Sta, int16(l[1]))
+			o.Code = append(o.Code, rho+d)
+			o.Phase = append(o.Phase, rho+d+123.456*float64(1+l[0]+l[1]))
+			o.Computed = append(o.Computed, rho)
+			o.Elev = append(o.Elev, 0.6)
+		}
+	}
+	o.Start = append(o.Start, len(o.Sat))
+	return o
+}
+
+// TestWallTransferHand: a link delay δ on the link B–S1 of the loop
+// A–S1–B–S2 (reference A, equal weights) goes into the clocks as the
+// least-squares solution worked out by hand: minimising
+// s1² + s2² + (b − s1 − δ)² + (b − s2)² gives b = δ/2, s1 = −δ/4, s2 = δ/4
+// (b station B, s1, s2 satellite clock errors, in units of δ). A delay on
+// the link B–S3, S3's only link, goes entirely into S3: s3 = −δ.
+func TestWallTransferHand(t *testing.T) {
+	pulse := []float64{0, 0, 2e-9, 5e-9, 1e-9, 0} // s
+	for _, c := range []struct {
+		name string
+		sat  int
+		want map[string]float64 // error per unit δ
+	}{
+		{"loop", 0, map[string]float64{"B": 0.5, "S1": -0.25, "S2": 0.25, "S3": 0.5, "A": 0}},
+		{"single-link", 2, map[string]float64{"B": 0, "S1": 0, "S2": 0, "S3": -1, "A": 0}},
+	} {
+		obs := handObs(func(k, sat, sta int) float64 {
+			if sat == c.sat && sta == 1 {
+				return pulse[k]
+			}
+			return 0
+		})
+		sol, err := Solve(obs, SolveConfig{Reference: "A", Threshold: math.Inf(1)})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for k := range obs.Epochs {
+			for id, f := range c.want {
+				got := sol.At(k, sol.Index(id))
+				if want := f * pulse[k]; math.Abs(got-want) > 1e-15 {
+					t.Errorf("%s: epoch %d clock %s: error %.4g s, want %.4g s", c.name, k, id, got, want)
+				}
+			}
+		}
+	}
+}
+
+// TestScreening: with white noise and cycle slips, screening keeps the
+// estimates at the phase-noise level, while without screening the slips
+// leak into the clocks.
+func TestScreening(t *testing.T) {
+	net := testNetwork(24, 16)
+	rng := rand.New(rand.NewPCG(5, 6))
+	const epochs, interval = 100, 30.0
+	truth := testTruth(net, epochs, interval, rng)
+	cfg := ObsConfig{Interval: interval, Epochs: epochs, CodeNoise: 0.5, PhaseNoise: 0.003, SlipProbability: 2e-3}
+	obs, err := Simulate(net, truth, cfg, rng)
+	if err != nil {
+		t.Fatal(err)
+	}
+	slips := 0
+	for _, s := range obs.Slip {
+		if s {
+			slips++
+		}
+	}
+	if slips < 20 {
+		t.Fatalf("only %d slips simulated", slips)
+	}
+	rms := func(sol *Solution) float64 {
+		s, n := 0.0, 0
+		for k := range epochs {
+			for j, id := range sol.Clocks {
+				if v := sol.At(k, j); !math.IsNaN(v) {
+					// compare epoch-to-epoch structure: remove each clock's mean error later
+					d := v - relTruth(truth, k, id, "STAA")
+					s += d * d
+					n++
+				}
+			}
+		}
+		return math.Sqrt(s / float64(n))
+	}
+	good, err := Solve(obs, SolveConfig{Reference: "STAA", CodeSigma: 0.5, PhaseSigma: 0.003})
+	if err != nil {
+		t.Fatal(err)
+	}
+	bad, err := Solve(obs, SolveConfig{Reference: "STAA", CodeSigma: 0.5, PhaseSigma: 0.003, Threshold: math.Inf(1)})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rg, rb := rms(good), rms(bad)
+	t.Logf("%d slips, %d phase rejections; RMS error %.3g s screened, %.3g s unscreened", slips, good.PhaseRejected, rg, rb)
+	// Code anchor: 0.5 m over ~100 epochs × ~8 links per clock → ~0.2 ns offsets.
+	if rg > 0.5e-9 {
+		t.Errorf("screened RMS error %.3g s, want < 0.5 ns", rg)
+	}
+	if !(rb > 2*rg) {
+		t.Errorf("unscreened RMS error %.3g s not clearly worse than screened %.3g s", rb, rg)
+	}
+	if good.PhaseRejected < slips/2 {
+		t.Errorf("%d phase rejections for %d slips", good.PhaseRejected, slips)
+	}
+}

@@ -1,0 +1,164 @@
+package estimate
+
+import (
+	"bufio"
+	"crypto/sha256"
+	"encoding/hex"
+	"fmt"
+	"hash"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"strconv"
+)
+
+// FileSum is the size and SHA-256 checksum of a written file (same fields
+// and JSON names as sim.FileSum, for the manifest).
+type FileSum struct {
+	Bytes  int64  `json:"bytes"`
+	SHA256 string `json:"sha256"`
+}
+
+// LinkColumns returns the links.csv header.
+func LinkColumns() []string {
+	return []string{"t_s", "station", "satellite", "elevation_deg", "cos_incidence", "delay_s"}
+}
+
+// WriteLinksCSV writes links.csv: one row per link with a wall delay,
+// t_s (reception time, s since the first epoch), station, satellite,
+// elevation_deg, cos_incidence (cosine of the angle between the line of
+// sight and the wall normal), delay_s (total wall link delay, s). Floats are
+// written in the shortest form that parses back exactly.
+func WriteLinksCSV(path string, links []LinkRecord) (FileSum, error) {
+	return writeAtomic(path, func(w *bufio.Writer) error {
+		row := []byte("t_s,station,satellite,elevation_deg,cos_incidence,delay_s\n")
+		if _, err := w.Write(row); err != nil {
+			return err
+		}
+		for i, l := range links {
+			if err := csvName(l.Station); err != nil {
+				return fmt.Errorf("link %d: %w", i, err)
+			}
+			if err := csvName(l.Satellite); err != nil {
+				return fmt.Errorf("link %d: %w", i, err)
+			}
+			row = strconv.AppendFloat(row[:0], l.T, 'f', -1, 64)
+			row = append(row, ',')
+			row = append(row, l.Station...)
+			row = append(row, ',')
+			row = append(row, l.Satellite...)
+			for _, v := range []float64{l.ElevationDeg, l.CosIncidence, l.Delay} {
+				row = append(row, ',')
+				row = strconv.AppendFloat(row, v, 'g', -1, 64)
+			}
+			row = append(row, '\n')
+			if _, err := w.Write(row); err != nil {
+				return err
+			}
+		}
+		return nil
+	})
+}
+
+// WriteEstimatedCSV writes estimated.csv in the layout of clocks.csv: column
+// t_s (s since the first epoch), then one column per clock in the order ids
+// (nil = s.Clocks), estimated bias relative to the reference, s; an empty
+// cell is a gap.
+func WriteEstimatedCSV(path string, s *Solution, ids []string) (FileSum, error) {
+	if ids == nil {
+		ids = s.Clocks
+	}
+	m, err := s.Matrix(ids)
+	if err != nil {
+		return FileSum{}, err
+	}
+	for _, id := range ids {
+		if err := csvName(id); err != nil {
+			return FileSum{}, err
+		}
+	}
+	nc := len(ids)
+	return writeAtomic(path, func(w *bufio.Writer) error {
+		row := []byte("t_s")
+		for _, id := range ids {
+			row = append(row, ',')
+			row = append(row, id...)
+		}
+		row = append(row, '\n')
+		if _, err := w.Write(row); err != nil {
+			return err
+		}
+		for k := range s.Epochs {
+			row = strconv.AppendFloat(row[:0], float64(k)*s.Interval, 'f', -1, 64)
+			for _, v := range m[k*nc : (k+1)*nc] {
+				row = append(row, ',')
+				if !math.IsNaN(v) {
+					row = strconv.AppendFloat(row, v, 'g', -1, 64)
+				}
+			}
+			row = append(row, '\n')
+			if _, err := w.Write(row); err != nil {
+				return err
+			}
+		}
+		return nil
+	})
+}
+
+func csvName(s string) error {
+	for _, r := range s {
+		if r == ',' || r == '"' || r == '\n' || r == '\r' {
+			return fmt.Errorf("estimate: name %q contains a CSV delimiter", s)
+		}
+	}
+	if s == "" {
+		return fmt.Errorf("estimate: empty name in CSV output")
+	}
+	return nil
+}
+
+type countHash struct {
+	h hash.Hash
+	n int64
+}
+
+func (c *countHash) Write(p []byte) (int, error) {
+	c.n += int64(len(p))
+	return c.h.Write(p)
+}
+
+// writeAtomic writes path through fill via a temporary file in the same
+// directory, renamed onto path only when everything succeeded.
+func writeAtomic(path string, fill func(w *bufio.Writer) error) (sum FileSum, err error) {
+	dir, base := filepath.Split(path)
+	if dir == "" {
+		dir = "."
+	}
+	f, err := os.CreateTemp(dir, "."+base+".tmp*")
+	if err != nil {
+		return sum, fmt.Errorf("estimate: could not create %s: %w", path, err)
+	}
+	tmp := f.Name()
+	defer func() {
+		if err != nil {
+			f.Close()
+			os.Remove(tmp)
+		}
+	}()
+	ch := &countHash{h: sha256.New()}
+	w := bufio.NewWriterSize(io.MultiWriter(f, ch), 1<<16)
+	if err = fill(w); err != nil {
+		return sum, fmt.Errorf("estimate: could not write %s: %w", path, err)
+	}
+	if err = w.Flush(); err != nil {
+		return sum, fmt.Errorf("estimate: could not write %s: %w", path, err)
+	}
+	if err = f.Close(); err != nil {
+		return sum, fmt.Errorf("estimate: could not write %s: %w", path, err)
+	}
+	if err = os.Rename(tmp, path); err != nil {
+		return sum, fmt.Errorf("estimate: could not write %s: %w", path, err)
+	}
+	return FileSum{Bytes: ch.n, SHA256: hex.EncodeToString(ch.h.Sum(nil))}, nil
+}
