@@ -34,6 +34,20 @@ func TestLinearDrift(t *testing.T) {
 			}
 		}
 	}
+	// the same through the shared one-pass path
+	many, _ := ComputeMany([]Stat{StatOADEV, StatMDEV, StatOHDEV}, x, tau0, func(Stat) []int { return m }, nil)
+	for i, s := range []Stat{StatOADEV, StatMDEV} {
+		for _, v := range many[i] {
+			if want := D * v.Tau / math.Sqrt2; !scalar.EqualWithinRel(v.Value, want, 1e-6) {
+				t.Errorf("many %s τ=%g s: %g, want Dτ/√2 = %g", s, v.Tau, v.Value, want)
+			}
+		}
+	}
+	for _, v := range many[2] {
+		if v.Value > 1e-6*D*v.Tau {
+			t.Errorf("many ohdev τ=%g s: %g, want 0", v.Tau, v.Value)
+		}
+	}
 	r, _ := Compute(StatTDEV, x, tau0, m, nil)
 	for _, v := range r {
 		if want := D * v.Tau * v.Tau / math.Sqrt(6); !scalar.EqualWithinRel(v.Value, want, 1e-6) {
@@ -173,5 +187,51 @@ func TestComputeErrors(t *testing.T) {
 	}
 	if got := AllTaus(100, StatTOTDEV); len(got) != 50 {
 		t.Errorf("AllTaus(100, totdev) has %d entries, want 50", len(got))
+	}
+}
+
+// TestComputeManyMatchesSingle: the shared one-pass evaluation gives the
+// same values as the single-statistic estimators, and reproduces the SP 1065
+// Table 31 values (1000-point set) for OADEV, MDEV, TDEV and OHDEV.
+func TestComputeManyMatchesSingle(t *testing.T) {
+	rng := rand.New(rand.NewPCG(9, 9))
+	x := make([]float64, 50000)
+	acc := 0.0
+	for i := range x {
+		acc += 1e-11 + 1e-12*rng.NormFloat64()
+		x[i] = 1e-6 + acc // offset and frequency offset stress the recursion
+	}
+	stats := []Stat{StatOADEV, StatMDEV, StatTDEV, StatOHDEV, StatHDEV}
+	grid := func(s Stat) []int { return OctaveTaus(len(x), s) }
+	many, err := ComputeMany(stats, x, 1, grid, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, s := range stats {
+		single, _ := Compute(s, x, 1, grid(s), nil)
+		if len(single) != len(many[i]) {
+			t.Fatalf("%s: %d vs %d results", s, len(single), len(many[i]))
+		}
+		for k := range single {
+			if !scalar.EqualWithinRel(single[k].Value, many[i][k].Value, 1e-9) || single[k].N != many[i][k].N || single[k].EDF != many[i][k].EDF {
+				t.Errorf("%s m=%d: single %+v, many %+v", s, single[k].M, single[k], many[i][k])
+			}
+		}
+	}
+	xr := FreqToPhase(riley1000(), 1)
+	want := map[Stat][]float64{ // SP 1065 Table 31
+		StatOADEV: {2.922319e-01, 9.159953e-02, 3.241343e-02},
+		StatMDEV:  {2.922319e-01, 6.172376e-02, 2.170921e-02},
+		StatTDEV:  {1.687202e-01, 3.563623e-01, 1.253382e+00},
+		StatOHDEV: {2.943883e-01, 9.581083e-02, 3.237638e-02},
+	}
+	st := []Stat{StatOADEV, StatMDEV, StatTDEV, StatOHDEV}
+	r, _ := ComputeMany(st, xr, 1, func(Stat) []int { return []int{1, 10, 100} }, nil)
+	for i, s := range st {
+		for k, v := range r[i] {
+			if !scalar.EqualWithinRel(v.Value, want[s][k], 1e-6) {
+				t.Errorf("many %s m=%d: %.7g, want %.7g", s, v.M, v.Value, want[s][k])
+			}
+		}
 	}
 }

@@ -72,61 +72,56 @@ func avarOverlap(x []float64, m int, tau float64, gaps bool) (float64, int) {
 // Mod σ² = Σ_{j=0}^{N−3m} [Σ_{i=j}^{j+m−1} d_i]² / (2m²τ²(N−3m+1)),
 // d_i = x_{i+2m} − 2x_{i+m} + x_i, with the window sum updated recursively
 // (Bregni 2001 style, stability.md §2.3) and recomputed from scratch every
-// few windows to bound round-off. buf is scratch of length ≥ N−2m.
+// refresh windows to bound round-off. buf is scratch of length ≥ N−2m.
+// (Gap-free data normally go through fusedPass instead.)
 func mvar(x []float64, m int, tau float64, buf []float64) (float64, int) {
 	nd := len(x) - 2*m // number of second differences
 	nw := len(x) - 3*m + 1
 	if nw <= 0 {
 		return math.NaN(), 0
 	}
-	d := buf[:nd]
-	for i := range d {
-		v := x[i+2*m] - 2*x[i+m] + x[i]
-		d[i] = v
-	}
 	refresh := max(1<<16, 8*m)
+	fm := float64(m)
+	norm := 2 * fm * fm * tau * tau
+	d := buf[:nd]
+	a, b, c := x[:nd], x[m:m+nd], x[2*m:2*m+nd]
+	for i := range d {
+		d[i] = c[i] - 2*b[i] + a[i]
+	}
 	s, n := 0.0, 0
 	var win float64
 	nanIn := 0
-	for i := range m {
-		if v := d[i]; v == v {
-			win += v
-		} else {
-			nanIn++
-		}
-	}
+	sinceRefresh := 0
 	for j := 0; j < nw; j++ {
-		if j > 0 {
-			if j%refresh == 0 {
-				win, nanIn = 0, 0
-				for _, v := range d[j : j+m] {
-					if v == v {
-						win += v
-					} else {
-						nanIn++
-					}
-				}
-			} else {
-				in, out := d[j+m-1], d[j-1]
-				if in == in {
-					win += in
+		if j == 0 || sinceRefresh == refresh {
+			win, nanIn, sinceRefresh = 0, 0, 0
+			for _, v := range d[j : j+m] {
+				if v == v {
+					win += v
 				} else {
 					nanIn++
 				}
-				if out == out {
-					win -= out
-				} else {
-					nanIn--
-				}
+			}
+		} else {
+			in, out := d[j+m-1], d[j-1]
+			if in == in {
+				win += in
+			} else {
+				nanIn++
+			}
+			if out == out {
+				win -= out
+			} else {
+				nanIn--
 			}
 		}
+		sinceRefresh++
 		if nanIn == 0 {
 			s += win * win
 			n++
 		}
 	}
-	fm := float64(m)
-	return s / (2 * fm * fm * tau * tau * float64(n)), n
+	return s / (norm * float64(n)), n
 }
 
 // hvarNonOverlap: SP 1065 §5.2.8 phase form,
@@ -210,4 +205,60 @@ func totvar(x []float64, m int, tau float64) (float64, int) {
 		}
 	}
 	return s / (2 * tau * tau * float64(cnt)), cnt
+}
+
+// fusedPass returns, for gap-free phase x and averaging factor m (with
+// len(x) > 3m), the three sums
+//
+//	a = Σ_{i<N−2m} (x_{i+2m} − 2x_{i+m} + x_i)²                  (OAVAR)
+//	w = Σ_{j<N−3m+1} S_j²,  S_j = Σ_{i=j}^{j+m−1} (x_{i+2m} − 2x_{i+m} + x_i)   (MVAR)
+//	h = Σ_{i<N−3m} (x_{i+3m} − 3x_{i+2m} + 3x_{i+m} − x_i)²       (OHVAR)
+//
+// in one pass: the third difference both is the Hadamard term and advances
+// the MVAR window, S_{j+1} = S_j + (third difference at j). The window is
+// recomputed exactly every refresh steps to bound round-off.
+func fusedPass(x []float64, m int) (a, w, h float64) {
+	n := len(x)
+	n3 := n - 3*m // number of third differences
+	refresh := max(1<<16, 8*m)
+	exact := func(j int) float64 {
+		s := 0.0
+		for i := j; i < j+m; i++ {
+			s += float64(x[i+2*m]-float64(2*x[i+m])) + x[i]
+		}
+		return s
+	}
+	var a0, a1, h0, h1, w0, w1 float64
+	for blk := 0; blk < n3; blk += refresh {
+		end := min(blk+refresh, n3)
+		S := exact(blk)
+		xa, xb, xc, xd := x[blk:end], x[blk+m:end+m], x[blk+2*m:end+2*m], x[blk+3*m:end+3*m]
+		// S advances by d2_{j+m} − d2_j, with both second differences
+		// evaluated by the same expression (explicit float64 conversions
+		// forbid fused multiply-adds), so the rounding errors of the d2
+		// cancel exactly and do not accumulate in S (stability.md §2.3).
+		for k := range xa {
+			d2 := float64(xc[k]-float64(2*xb[k])) + xa[k]
+			d2p := float64(xd[k]-float64(2*xc[k])) + xb[k]
+			d3 := d2p - d2 // = x_{j+3m} − 3x_{j+2m} + 3x_{j+m} − x_j
+			if k&1 == 0 {
+				a0 += d2 * d2
+				h0 += d3 * d3
+				w0 += S * S
+			} else {
+				a1 += d2 * d2
+				h1 += d3 * d3
+				w1 += S * S
+			}
+			S += d3
+		}
+	}
+	// the last MVAR window S_{N−3m} and the last m OAVAR terms
+	S := exact(n3)
+	w0 += S * S
+	for i := n3; i < n-2*m; i++ {
+		d2 := x[i+2*m] - 2*x[i+m] + x[i]
+		a0 += d2 * d2
+	}
+	return a0 + a1, w0 + w1, h0 + h1
 }

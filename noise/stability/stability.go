@@ -3,6 +3,7 @@ package stability
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 )
 
@@ -83,8 +84,23 @@ const OneSigma = 0.6826894921370859
 // the decimated phase; where fewer than 30 points remain, the exponent found
 // at the largest identifiable τ is carried on.
 func Compute(s Stat, x []float64, tau0 float64, m []int, opt *Options) ([]Result, error) {
-	if _, err := ParseStat(string(s)); err != nil {
+	r, err := ComputeMany([]Stat{s}, x, tau0, func(Stat) []int { return m }, opt)
+	if err != nil {
 		return nil, err
+	}
+	return r[0], nil
+}
+
+// ComputeMany evaluates several statistics of one phase series, statistic
+// stats[i] at the averaging factors grid(stats[i]), and returns the results
+// in the order of stats (see Compute). For gap-free data, when two or more
+// of OAVAR, MVAR (MDEV/TDEV) and OHVAR are wanted at the same m, they share
+// one pass over x.
+func ComputeMany(stats []Stat, x []float64, tau0 float64, grid func(Stat) []int, opt *Options) ([][]Result, error) {
+	for _, s := range stats {
+		if _, err := ParseStat(string(s)); err != nil {
+			return nil, err
+		}
 	}
 	if !(tau0 > 0) || math.IsInf(tau0, 0) {
 		return nil, fmt.Errorf("stability: sample interval %g s must be positive and finite", tau0)
@@ -103,82 +119,158 @@ func Compute(s Stat, x []float64, tau0 float64, m []int, opt *Options) ([]Result
 			return nil, fmt.Errorf("stability: noise exponent α = %d outside −4 … 2", *fixed)
 		}
 	}
-	gaps := hasNaN(x)
-	n := len(x)
-	var buf []float64
-	out := make([]Result, 0, len(m))
-	lastAlpha, haveAlpha := 0, false
-	dmax := 2
-	if s == StatHDEV || s == StatOHDEV {
-		dmax = 3
-	}
-	for _, mi := range m {
-		if mi < 1 {
-			return nil, fmt.Errorf("stability: averaging factor %d < 1", mi)
-		}
-		tau := float64(mi) * tau0
-		var v float64
-		var cnt int
-		switch s {
-		case StatADEV:
-			v, cnt = avarNonOverlap(x, mi, tau)
-		case StatOADEV:
-			v, cnt = avarOverlap(x, mi, tau, gaps)
-		case StatMDEV, StatTDEV:
-			if n-2*mi > 0 && buf == nil {
-				buf = make([]float64, n)
+	grids := make([][]int, len(stats))
+	var all []int
+	seen := map[int]bool{}
+	for i, s := range stats {
+		grids[i] = grid(s)
+		for _, mi := range grids[i] {
+			if mi < 1 {
+				return nil, fmt.Errorf("stability: averaging factor %d < 1", mi)
 			}
-			v, cnt = mvar(x, mi, tau, buf)
-		case StatHDEV:
-			v, cnt = hvarNonOverlap(x, mi, tau)
-		case StatOHDEV:
-			v, cnt = hvarOverlap(x, mi, tau, gaps)
-		case StatTOTDEV:
-			v, cnt = totvar(x, mi, tau)
+			if !seen[mi] {
+				seen[mi] = true
+				all = append(all, mi)
+			}
 		}
-		if cnt == 0 || math.IsNaN(v) {
-			continue
+	}
+	gaps := hasNaN(x)
+	nValid := len(x)
+	if gaps {
+		nValid = 0
+		for _, xv := range x {
+			if xv == xv {
+				nValid++
+			}
 		}
-		dev := math.Sqrt(v)
-		if s == StatTDEV {
-			dev *= tau / math.Sqrt(3) // SP 1065 §5.2.6: σ_x = (τ/√3)·Mod σ_y
+	}
+	// one shared pass per m for the overlapping family on gap-free data
+	type fusedVals struct{ oavar, mvar, ohvar float64 }
+	fused := map[int]fusedVals{}
+	if !gaps {
+		want := map[int]int{} // m → number of distinct fused-family variances wanted
+		for _, fam := range [][]Stat{{StatOADEV}, {StatMDEV, StatTDEV}, {StatOHDEV}} {
+			fm := map[int]bool{}
+			for i, s := range stats {
+				if slices.Contains(fam, s) {
+					for _, mi := range grids[i] {
+						fm[mi] = true
+					}
+				}
+			}
+			for mi := range fm {
+				want[mi]++
+			}
 		}
-		alpha := lastAlpha
-		if fixed != nil {
-			alpha = *fixed
-		} else if a, _, err := IdentifyNoise(x, mi, true, dmax); err == nil {
-			alpha, lastAlpha, haveAlpha = a, a, true
-		} else if !haveAlpha {
-			alpha = 0 // nothing identifiable yet: assume white FM
-		}
-		alpha = clampAlpha(alpha, dmax)
-		nValid := n
-		if gaps {
-			nValid = 0
-			for _, xv := range x {
-				if xv == xv {
-					nValid++
+		for _, mi := range all {
+			if want[mi] >= 2 && len(x)-3*mi > 0 {
+				a, mv, h := fusedPass(x, mi)
+				tau := float64(mi) * tau0
+				fm := float64(mi)
+				n := len(x)
+				fused[mi] = fusedVals{
+					oavar: a / (2 * tau * tau * float64(n-2*mi)),
+					mvar:  mv / (2 * fm * fm * tau * tau * float64(n-3*mi+1)),
+					ohvar: h / (6 * tau * tau * float64(n-3*mi)),
 				}
 			}
 		}
-		var edf float64
-		fm := float64(mi)
-		switch s {
-		case StatADEV:
-			edf = edfGreenhallRiley(alpha, 2, mi, fm, 1, nValid)
-		case StatOADEV:
-			edf = edfGreenhallRiley(alpha, 2, mi, fm, fm, nValid)
-		case StatMDEV, StatTDEV:
-			edf = edfGreenhallRiley(alpha, 2, mi, 1, fm, nValid)
-		case StatHDEV:
-			edf = edfGreenhallRiley(alpha, 3, mi, fm, 1, nValid)
-		case StatOHDEV:
-			edf = edfGreenhallRiley(alpha, 3, mi, fm, fm, nValid)
-		case StatTOTDEV:
-			edf = edfTotdev(alpha, mi, nValid)
+	}
+	// noise identification once per (m, dmax)
+	type idKey struct{ m, dmax int }
+	ids := map[idKey]int{}
+	idOK := map[idKey]bool{}
+	identify := func(mi, dmax int) {
+		k := idKey{mi, dmax}
+		if _, done := idOK[k]; done {
+			return
 		}
-		lo, hi := ConfidenceInterval(dev, edf, cl)
-		out = append(out, Result{Tau: tau, M: mi, N: cnt, Value: dev, CILow: lo, CIHigh: hi, EDF: edf, Alpha: alpha})
+		a, _, err := IdentifyNoise(x, mi, true, dmax)
+		ids[k], idOK[k] = a, err == nil
+	}
+	var buf []float64
+	out := make([][]Result, len(stats))
+	for si, s := range stats {
+		dmax := 2
+		if s == StatHDEV || s == StatOHDEV {
+			dmax = 3
+		}
+		lastAlpha, haveAlpha := 0, false
+		res := make([]Result, 0, len(grids[si]))
+		for _, mi := range grids[si] {
+			tau := float64(mi) * tau0
+			var v float64
+			var cnt int
+			f, haveFused := fused[mi]
+			switch s {
+			case StatADEV:
+				v, cnt = avarNonOverlap(x, mi, tau)
+			case StatOADEV:
+				if haveFused {
+					v, cnt = f.oavar, len(x)-2*mi
+				} else {
+					v, cnt = avarOverlap(x, mi, tau, gaps)
+				}
+			case StatMDEV, StatTDEV:
+				if haveFused {
+					v, cnt = f.mvar, len(x)-3*mi+1
+				} else {
+					if buf == nil && len(x)-2*mi > 0 {
+						buf = make([]float64, len(x))
+					}
+					v, cnt = mvar(x, mi, tau, buf)
+				}
+			case StatHDEV:
+				v, cnt = hvarNonOverlap(x, mi, tau)
+			case StatOHDEV:
+				if haveFused {
+					v, cnt = f.ohvar, len(x)-3*mi
+				} else {
+					v, cnt = hvarOverlap(x, mi, tau, gaps)
+				}
+			case StatTOTDEV:
+				v, cnt = totvar(x, mi, tau)
+			}
+			if cnt <= 0 || math.IsNaN(v) {
+				continue
+			}
+			dev := math.Sqrt(v)
+			if s == StatTDEV {
+				dev *= tau / math.Sqrt(3) // SP 1065 §5.2.6: σ_x = (τ/√3)·Mod σ_y
+			}
+			alpha := lastAlpha
+			if fixed != nil {
+				alpha = *fixed
+			} else {
+				identify(mi, dmax)
+				k := idKey{mi, dmax}
+				if idOK[k] {
+					alpha, lastAlpha, haveAlpha = ids[k], ids[k], true
+				} else if !haveAlpha {
+					alpha = 0 // nothing identifiable yet: assume white FM
+				}
+			}
+			alpha = clampAlpha(alpha, dmax)
+			var edf float64
+			fm := float64(mi)
+			switch s {
+			case StatADEV:
+				edf = edfGreenhallRiley(alpha, 2, mi, fm, 1, nValid)
+			case StatOADEV:
+				edf = edfGreenhallRiley(alpha, 2, mi, fm, fm, nValid)
+			case StatMDEV, StatTDEV:
+				edf = edfGreenhallRiley(alpha, 2, mi, 1, fm, nValid)
+			case StatHDEV:
+				edf = edfGreenhallRiley(alpha, 3, mi, fm, 1, nValid)
+			case StatOHDEV:
+				edf = edfGreenhallRiley(alpha, 3, mi, fm, fm, nValid)
+			case StatTOTDEV:
+				edf = edfTotdev(alpha, mi, nValid)
+			}
+			lo, hi := ConfidenceInterval(dev, edf, cl)
+			res = append(res, Result{Tau: tau, M: mi, N: cnt, Value: dev, CILow: lo, CIHigh: hi, EDF: edf, Alpha: alpha})
+		}
+		out[si] = res
 	}
 	return out, nil
 }

@@ -1,0 +1,55 @@
+package noise
+
+import (
+	"math/rand/v2"
+	"runtime"
+	"testing"
+)
+
+var sinkX []float64
+
+// BenchmarkPhaseFiveTerm generates the full five-term model (plus drift and
+// one periodic term) and reports samples/s and bytes allocated per sample.
+func BenchmarkPhaseFiveTerm(b *testing.B) {
+	m := ClockModel{
+		H:        [5]float64{1e-25, 1e-24, 1e-23, 1e-28, 1e-34},
+		Drift:    1e-18,
+		Periodic: []Periodic{{Period: 43082, Amplitude: 1e-10}},
+	}
+	for _, n := range []int{1 << 20, 10_000_000} {
+		b.Run(sizeName(n), func(b *testing.B) {
+			rng := rand.New(rand.NewPCG(1, 2))
+			var ms0, ms1 runtime.MemStats
+			runtime.ReadMemStats(&ms0)
+			k := 0
+			for b.Loop() {
+				sinkX = m.Phase(rng, n, 30)
+				k++
+			}
+			runtime.ReadMemStats(&ms1)
+			b.ReportMetric(float64(n)*float64(k)/b.Elapsed().Seconds(), "samples/s")
+			b.ReportMetric(float64(ms1.TotalAlloc-ms0.TotalAlloc)/float64(k)/float64(n), "B/sample")
+		})
+	}
+}
+
+// BenchmarkPhaseNoFlicker: white PM, white FM and random-walk FM only (no FFT).
+func BenchmarkPhaseNoFlicker(b *testing.B) {
+	m := ClockModel{H: [5]float64{1e-25, 0, 1e-23, 0, 1e-34}}
+	const n = 1 << 20
+	rng := rand.New(rand.NewPCG(1, 2))
+	for b.Loop() {
+		sinkX = m.Phase(rng, n, 30)
+	}
+	b.ReportMetric(float64(n)*float64(b.N)/b.Elapsed().Seconds(), "samples/s")
+}
+
+func sizeName(n int) string {
+	switch n {
+	case 1 << 20:
+		return "2^20"
+	case 10_000_000:
+		return "1e7"
+	}
+	return "n"
+}
