@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"gonum.org/v1/gonum/floats/scalar"
+	"gonum.org/v1/gonum/integrate/quad"
 )
 
 func randomUnit(rng *rand.Rand) [3]float64 {
@@ -174,5 +175,44 @@ func TestCrossingErrors(t *testing.T) {
 	fast := func(t float64) [3]float64 { return [3]float64{1e6 + 4e5*t, 0, 0} }
 	if _, err := good.Cross("C", "rb", fast); err == nil {
 		t.Error("clock faster than the wall accepted")
+	}
+}
+
+// The linear approximation within a crossing (doc.go): for a GPS orbit
+// (a_max = GM/a² = 0.565 m/s²) the rendered phase differs from the phase
+// integrated along the true trajectory, ∫ Scale·s(−x(t)/d) dt, by less than
+// the documented bound a_max·k²·d/(2·v_rel²) (k = 3) relative to the step.
+func TestLinearApproximationBound(t *testing.T) {
+	const a = 26.56e6
+	amax := gmEarth / (a * a)
+	rng := rand.New(rand.NewPCG(17, 19))
+	for _, d := range []float64{1e7, 1e8} {
+		for trial := range 4 {
+			tr := circularOrbit(a, 55*math.Pi/180, 2*math.Pi*rng.Float64(), 2*math.Pi*rng.Float64())
+			w := effWall(randomUnit(rng), 3e5, d, 0, 1e9, 1e11, ProfileGaussian)
+			c, err := w.Cross("G", "rb", tr)
+			if err != nil {
+				t.Fatal(err)
+			}
+			exact := func(tt float64) float64 {
+				x := dot(w.N, tr(tt)) - w.Speed*(tt-w.T0)
+				return c.Scale * w.Profile.Shape(-x/d)
+			}
+			bound := amax * 9 * d / (2 * c.VRel * c.VRel)
+			worst := 0.0
+			acc, prev := 0.0, c.TCross-8*c.Tau
+			for k := -8.0; k <= 8; k += 0.5 {
+				tt := c.TCross + k*c.Tau
+				if tt > prev {
+					acc += quad.Fixed(exact, prev, tt, 40, nil, 0)
+					prev = tt
+				}
+				worst = math.Max(worst, math.Abs(acc-c.PhaseAt(tt))/math.Abs(c.Step()))
+			}
+			if worst > bound {
+				t.Errorf("d = %g m, trial %d: phase error %.3g of the step, bound %.3g", d, trial, worst, bound)
+			}
+			t.Logf("d = %g m: phase error %.3g of the step (bound %.3g)", d, worst, bound)
+		}
 	}
 }

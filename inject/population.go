@@ -67,6 +67,18 @@ type Population struct {
 	Coupling     Coupling
 	FirstID      int // id of the first wall; later ones count up
 	MaxEvents    int // 0: DefaultMaxEvents
+	// Explicit, if not empty, replaces the random draws: one wall per entry,
+	// in order, with this population's thickness, profile, amplitude and
+	// coupling (MeanInterval still sets T of a density amplitude). For tests
+	// and hand-made scenarios; Sample then uses no random numbers.
+	Explicit []EventSpec
+}
+
+// EventSpec is an explicitly given wall arrival.
+type EventSpec struct {
+	T0    float64    // s since the run start: centre plane at the geocentre
+	N     [3]float64 // velocity direction, celestial frame (normalised by Sample)
+	Speed float64    // normal speed, m/s
 }
 
 func (p Population) minSpeed() float64 {
@@ -91,8 +103,30 @@ func (p Population) amplitude() AmplitudeSpec {
 	return a
 }
 
-// Validate reports every inconsistency it can find before sampling.
+// Validate reports an inconsistency before sampling. With Explicit walls
+// only the wall model (thickness, profile, amplitude, coupling) is checked;
+// Sample checks each explicit entry.
 func (p Population) Validate() error {
+	if len(p.Explicit) == 0 {
+		if err := p.validateRandom(); err != nil {
+			return err
+		}
+	}
+	if p.MeanInterval != 0 && (!(p.MeanInterval > 0) || math.IsInf(p.MeanInterval, 0)) {
+		return fmt.Errorf("inject: mean interval %g s must be positive and finite", p.MeanInterval)
+	}
+	// The amplitude must resolve at a nominal speed.
+	v := 3e5
+	if len(p.Explicit) == 0 {
+		v = p.Halo.V0
+	}
+	if _, err := p.amplitude().Resolve(p.Profile, p.Coupling, p.Thickness, v); err != nil {
+		return err
+	}
+	return p.Coupling.Validate()
+}
+
+func (p Population) validateRandom() error {
 	if !(p.MeanInterval > 0) || math.IsInf(p.MeanInterval, 0) {
 		return fmt.Errorf("inject: mean interval %g s must be positive and finite", p.MeanInterval)
 	}
@@ -120,11 +154,7 @@ func (p Population) Validate() error {
 	if p.MaxEvents < 0 {
 		return fmt.Errorf("inject: max events %d must be non-negative", p.MaxEvents)
 	}
-	// The amplitude must resolve for a nominal speed.
-	if _, err := p.amplitude().Resolve(p.Profile, p.Coupling, p.Thickness, p.Halo.V0); err != nil {
-		return err
-	}
-	return p.Coupling.Validate()
+	return nil
 }
 
 func vnorm(v [3]float64) float64 { return math.Sqrt(dot(v, v)) }
@@ -140,11 +170,30 @@ func (p Population) Sample(rng *rand.Rand) ([]Wall, error) {
 	if err := p.Validate(); err != nil {
 		return nil, err
 	}
+	amp := p.amplitude()
+	var walls []Wall
+	if len(p.Explicit) > 0 {
+		for i, e := range p.Explicit {
+			nn := vnorm(e.N)
+			if !(nn > 0) || math.IsInf(nn, 0) {
+				return nil, fmt.Errorf("inject: explicit event %d: direction %v cannot be normalised", i, e.N)
+			}
+			a2, err := amp.Resolve(p.Profile, p.Coupling, p.Thickness, e.Speed)
+			if err != nil {
+				return nil, fmt.Errorf("inject: explicit event %d: %w", i, err)
+			}
+			w := Wall{ID: p.FirstID + i, T0: e.T0, N: [3]float64{e.N[0] / nn, e.N[1] / nn, e.N[2] / nn}, Speed: e.Speed,
+				Thickness: p.Thickness, Profile: p.Profile, A2: a2, Coupling: p.Coupling}
+			if err := w.Validate(); err != nil {
+				return nil, fmt.Errorf("inject: explicit event %d: %w", i, err)
+			}
+			walls = append(walls, w)
+		}
+		return walls, nil
+	}
 	if exp := (p.Span + 2*p.Margin) / p.MeanInterval; exp > float64(p.maxEvents()) {
 		return nil, fmt.Errorf("inject: %.3g expected walls (span %g s / interval %g s) exceed the cap of %d", exp, p.Span+2*p.Margin, p.MeanInterval, p.maxEvents())
 	}
-	amp := p.amplitude()
-	var walls []Wall
 	t := -p.Margin
 	for {
 		t += p.MeanInterval * rng.ExpFloat64()
@@ -207,6 +256,10 @@ func isotropic(rng *rand.Rand) [3]float64 {
 
 // Describe states the population model in one line, for the manifest.
 func (p Population) Describe() string {
+	if len(p.Explicit) > 0 {
+		return fmt.Sprintf("%d explicit walls; profile %s, thickness %g m, amplitude %s",
+			len(p.Explicit), p.Profile, p.Thickness, p.Amplitude.Mode)
+	}
 	orbit := "off"
 	if p.Halo.EarthOrbit {
 		orbit = fmt.Sprintf("on (March equinox at %g s)", p.Halo.EquinoxT)

@@ -217,3 +217,32 @@ func TestPopulationStepAmplitude(t *testing.T) {
 		}
 	}
 }
+
+// Explicit events: the given arrivals, normalised, no random draws.
+func TestPopulationExplicit(t *testing.T) {
+	p := testPopulation()
+	p.Halo = Halo{} // not needed for explicit walls
+	p.Orientation = 0
+	p.Explicit = []EventSpec{{T0: 100, N: [3]float64{0, 0, 2}, Speed: 3e5}, {T0: 50, N: [3]float64{1, 1, 0}, Speed: 2e5}}
+	walls, err := p.Sample(rand.New(rand.NewPCG(0, 0)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(walls) != 2 || walls[0].T0 != 100 || walls[0].N != [3]float64{0, 0, 1} || walls[1].ID != 2 || walls[1].Speed != 2e5 {
+		t.Fatalf("explicit walls %+v", walls)
+	}
+	if math.Abs(vnorm(walls[1].N)-1) > 1e-15 {
+		t.Errorf("direction not normalised: %v", walls[1].N)
+	}
+	if !strings.Contains(p.Describe(), "2 explicit walls") {
+		t.Errorf("description %q", p.Describe())
+	}
+	p.Explicit = []EventSpec{{T0: 1, Speed: 3e5}}
+	if _, err := p.Sample(rand.New(rand.NewPCG(0, 0))); err == nil {
+		t.Error("zero direction accepted")
+	}
+	p.Explicit = []EventSpec{{T0: 1, N: [3]float64{1, 0, 0}, Speed: -3}}
+	if _, err := p.Sample(rand.New(rand.NewPCG(0, 0))); err == nil {
+		t.Error("negative speed accepted")
+	}
+}
