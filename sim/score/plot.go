@@ -37,6 +37,20 @@ func savePlot(p *plot.Plot, path string) error {
 	return writeFileAtomic(path, b.Bytes())
 }
 
+// logTicks are gonum's log-axis ticks with labels written as 1e-11
+// instead of the accumulated-rounding 9.999999999999999e-11.
+type logTicks struct{}
+
+func (logTicks) Ticks(min, max float64) []plot.Tick {
+	ticks := plot.LogTicks{Prec: -1}.Ticks(min, max)
+	for i := range ticks {
+		if ticks[i].Label != "" {
+			ticks[i].Label = fmt.Sprintf("%.0e", ticks[i].Value)
+		}
+	}
+	return ticks
+}
+
 // fmtMetres writes a length in km for legends.
 func fmtMetres(d float64) string { return fmt.Sprintf("d = %.3g km", d/1e3) }
 
@@ -54,7 +68,7 @@ func PlotEfficiency(path string, rows []EffRow, fits map[float64]Sigmoid) error 
 	p.X.Label.Text = "bias step (s)"
 	p.Y.Label.Text = fmt.Sprintf("efficiency (band: Clopper–Pearson %.0f %%)", EfficiencyCL*100)
 	p.X.Scale = plot.LogScale{}
-	p.X.Tick.Marker = plot.LogTicks{Prec: -1}
+	p.X.Tick.Marker = logTicks{}
 	p.Y.Min, p.Y.Max = 0, 1.05
 	p.Legend.Top, p.Legend.Left = true, true
 	groups := groupByThickness(pooled)
@@ -164,7 +178,8 @@ func PlotROC(path string, roc []ROCPoint) error {
 // PlotReach draws the exclusion curves Λ_eff(d) on log-log axes, one per
 // mean interval T (smaller Λ_eff is excluded). Thicknesses where no T
 // gives a limit are shaded grey; a limit-less thickness of one T is marked
-// with a cross of that curve's colour at the bottom of the plot.
+// with a cross of that curve's colour at the bottom of the plot, and a
+// grid-edge point (a lower bound on the limit) with a triangle.
 func PlotReach(path string, pts []ReachPoint, span float64) error {
 	var Ts []float64
 	byT := map[float64][]ReachPoint{}
@@ -198,7 +213,7 @@ func PlotReach(path string, pts []ReachPoint, span float64) error {
 	p.X.Label.Text = "wall thickness d (m)"
 	p.Y.Label.Text = "Λ_eff (GeV)"
 	p.X.Scale, p.Y.Scale = plot.LogScale{}, plot.LogScale{}
-	p.X.Tick.Marker, p.Y.Tick.Marker = plot.LogTicks{Prec: -1}, plot.LogTicks{Prec: -1}
+	p.X.Tick.Marker, p.Y.Tick.Marker = logTicks{}, logTicks{}
 	p.Y.Min, p.Y.Max = ymin, ymax
 	p.X.Min, p.X.Max = ds[0]/2, ds[len(ds)-1]*2
 	p.Legend.Top = true
@@ -235,11 +250,15 @@ func PlotReach(path string, pts []ReachPoint, span float64) error {
 			shaded = true
 		}
 	}
+	edgeLegend := false
 	for i, T := range Ts {
 		col := plotutil.Color(i)
-		var line, miss plotter.XYs
+		var line, miss, edge plotter.XYs
 		status := ""
 		for _, q := range byT[T] {
+			if q.Status == ReachGridEdge {
+				edge = append(edge, plotter.XY{X: q.Thickness, Y: q.Lambda})
+			}
 			if math.IsNaN(q.Lambda) {
 				miss = append(miss, plotter.XY{X: q.Thickness, Y: ymin * 1.15})
 				if q.Status == ReachNotPossible {
@@ -258,6 +277,20 @@ func PlotReach(path string, pts []ReachPoint, span float64) error {
 			l.Color, s.Color = col, col
 			p.Add(l, s)
 			p.Legend.Add(label, l, s)
+		}
+		if len(edge) > 0 {
+			s, err := plotter.NewScatter(edge)
+			if err != nil {
+				return fmt.Errorf("score: plot: %w", err)
+			}
+			s.GlyphStyle.Shape = draw.TriangleGlyph{}
+			s.GlyphStyle.Color = col
+			s.GlyphStyle.Radius = vg.Points(4)
+			p.Add(s)
+			if !edgeLegend {
+				p.Legend.Add("grid edge: limit is at least this", s)
+				edgeLegend = true
+			}
 		}
 		if len(miss) > 0 {
 			s, err := plotter.NewScatter(miss)
