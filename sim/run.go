@@ -170,10 +170,15 @@ func Run(cfg Config, opts Options) (*Dataset, error) {
 
 	// Noise models.
 	if !s.Noise.Off {
+		presets := map[string]noise.ClockModel{} // Preset calibrates: once per family
 		for i := range plans {
-			m, err := noise.Preset(plans[i].family)
-			if err != nil {
-				return nil, fmt.Errorf("sim: clock %s: %w", plans[i].id, err)
+			m, ok := presets[plans[i].family]
+			if !ok {
+				var err error
+				if m, err = noise.Preset(plans[i].family); err != nil {
+					return nil, fmt.Errorf("sim: clock %s: %w", plans[i].id, err)
+				}
+				presets[plans[i].family] = m
 			}
 			if h, ok := s.Noise.Families[plans[i].family]; ok {
 				m.H = [5]float64{}

@@ -23,6 +23,8 @@ func main() {
 func commands() []*command {
 	return []*command{
 		newScenarioCmd(),
+		newSimulateCmd(),
+		newDemoCmd(),
 		newOrbitCmd(),
 		newOverlayCmd(),
 		newScoreCmd(),
