@@ -29,6 +29,8 @@ func commands() []*command {
 		newOverlayCmd(),
 		newScoreCmd(),
 		newReachCmd(),
+		newCampaignCmd(),
+		newMergeCmd(),
 		newVersionCmd(),
 	}
 }
