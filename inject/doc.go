@@ -115,5 +115,21 @@
 // or isotropic with normal speed v⊥ = v·n̂ (OrientIsotropic). Galactic
 // vectors are rotated to ICRS with the transpose of the Hipparcos ICRS →
 // galactic matrix (ESA 1997, Hipparcos Catalogue Vol. 1 §1.5.3; checked
-// against erfa.icrs2g). Every draw takes an explicit *rand.Rand.
+// against erfa.icrs2g). Every draw takes an explicit *rand.Rand. Walls whose
+// normal speed falls below MinSpeed (default 20 km/s, well above any clock's
+// speed so the crossing is unique) are redrawn; FluxWeighted weights the
+// draws by v⊥ (encounter rate ∝ v⊥). Describe states the model for the
+// manifest. Population.Explicit replaces the draws by given arrivals.
+// EquinoxOffset gives Halo.EquinoxT from the run start (mean equinox).
+//
+// # Use
+//
+//	walls, err := pop.Sample(rng)               // truth: walls[i].Event()
+//	for each wall w, for each clock j:
+//	    c, err := w.Cross(id_j, family_j, traj_j) // truth: c.Record()
+//	    err = inject.RenderPhase(bias_j, times, c) // adds Δx_j(t) [s]
+//
+// crossings.csv's step_s is Crossing.Step (NaN for the linear kink, whose
+// bias ramps instead of stepping); events.csv's lambda_eff_gev and peak_dnu
+// are those of the reporting clock.
 package inject

@@ -141,3 +141,20 @@ func (h Halo) SampleRelative(rng *rand.Rand, t float64) [3]float64 {
 	e := h.EarthVelocity(t)
 	return GalacticToICRS([3]float64{g[0] - e[0], g[1] - e[1], g[2] - e[2]})
 }
+
+// Mean March equinox used by EquinoxOffset: 2000-03-20 07:35 UTC as Unix
+// seconds, and the mean tropical year 365.24219 d (both from memory).
+const (
+	equinox2000Unix = 953537700
+	tropicalYear    = 365.24219 * 86400
+)
+
+// EquinoxOffset returns the time in s of the latest mean March equinox at or
+// before the run start, relative to that start (so ≤ 0), for Halo.EquinoxT.
+// startUnix is the run start in Unix seconds (UTC; the 18-s GPS−UTC offset
+// and the ±1 h spread of the true equinox around the mean are negligible for
+// the orbital-velocity phase: 1 h is 7e-4 rad).
+func EquinoxOffset(startUnix int64) float64 {
+	dt := float64(startUnix - equinox2000Unix)
+	return -(dt - tropicalYear*math.Floor(dt/tropicalYear))
+}

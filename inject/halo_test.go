@@ -9,6 +9,7 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+	"time"
 
 	"gonum.org/v1/gonum/floats/scalar"
 )
@@ -258,5 +259,32 @@ func TestHaloSamplerPhysicsMC(t *testing.T) {
 	l, b := Spherical(ICRSToGalactic([3]float64{-mean[0], -mean[1], -mean[2]}))
 	if !scalar.EqualWithinAbs(l/deg, 87.3, 0.05+0.3) || !scalar.EqualWithinAbs(b/deg, 1.8, 0.05+0.3) {
 		t.Errorf("apex of the sampled flow (l, b) = (%.2f°, %.2f°), want (87.3°, 1.8°)", l/deg, b/deg)
+	}
+}
+
+// March equinoxes (UTC, from memory of published almanac times):
+// 2021-03-20 09:37, 2024-03-20 03:06, 2010-03-20 17:32; the mean equinox is
+// within 1 h of each.
+func TestEquinoxOffset(t *testing.T) {
+	for _, s := range []string{"2021-03-20T09:37:00Z", "2024-03-20T03:06:00Z", "2010-03-20T17:32:00Z"} {
+		eq, err := time.Parse(time.RFC3339, s)
+		if err != nil {
+			t.Fatal(err)
+		}
+		start := eq.Add(40 * 24 * time.Hour).Unix() // a run starting 40 days later
+		off := EquinoxOffset(start)
+		if off > 0 || off < -tropicalYear {
+			t.Fatalf("%s: offset %g s outside (−1 yr, 0]", s, off)
+		}
+		got := float64(start) + off
+		d := math.Abs(got - float64(eq.Unix()))
+		t.Logf("%s: mean equinox off by %.0f s", s, d)
+		if d > 3600 {
+			t.Errorf("%s: mean equinox off by %.0f s", s, d)
+		}
+	}
+	// The constant is 2000-03-20 07:35 UTC.
+	if u := time.Date(2000, 3, 20, 7, 35, 0, 0, time.UTC).Unix(); u != equinox2000Unix {
+		t.Errorf("equinox constant %d, want %d", equinox2000Unix, u)
 	}
 }
