@@ -35,8 +35,8 @@ const (
 
 // IndexModel is a refractive-index parametrization: n − 1 = Coefficient·δα/α.
 type IndexModel struct {
-	Name        string  // IndexPermittivity, IndexLorentz or IndexUser
-	Coefficient float64 // k, dimensionless
+	Name        string  `json:"name"`        // IndexPermittivity, IndexLorentz or IndexUser
+	Coefficient float64 `json:"coefficient"` // k, dimensionless
 }
 
 // NewIndexModel returns the named parametrization. user is the coefficient

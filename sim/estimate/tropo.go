@@ -9,10 +9,13 @@ import "math"
 // DO-229; from memory) for both the hydrostatic and the wet part.
 
 // StandardPressure returns the pressure of the U.S. Standard Atmosphere 1976
-// at geopotential height h (m, troposphere layer, h < 11 km), hPa:
-// P = 1013.25·(1 − L·h/T₀)^(g₀M/(R*L)) with L = 0.0065 K/m, T₀ = 288.15 K
-// and exponent 5.25588.
-func StandardPressure(h float64) float64 {
+// at geometric height z (m, troposphere layer, z < 11 km), hPa:
+// P = 1013.25·(1 − L·H/T₀)^(g₀M/(R*L)) with L = 0.0065 K/m, T₀ = 288.15 K,
+// exponent 5.25588 and geopotential height H = r₀·z/(r₀ + z),
+// r₀ = 6 356 766 m. (An ellipsoidal height stands in for z here.)
+func StandardPressure(z float64) float64 {
+	const r0 = 6356766.0
+	h := r0 * z / (r0 + z)
 	return 1013.25 * math.Pow(1-0.0065*h/288.15, 5.25588)
 }
 
