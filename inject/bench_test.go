@@ -59,6 +59,37 @@ func BenchmarkRender(b *testing.B) {
 	}
 }
 
+// BenchmarkRenderTypical: a 33-s wall crossing once in a day of 30-s epochs
+// (most samples lie outside the pulse): the realistic per-sample cost.
+func BenchmarkRenderTypical(b *testing.B) {
+	const n = 2880
+	times := make([]float64, n)
+	for k := range times {
+		times[k] = 30 * float64(k)
+	}
+	c := Crossing{Clock: "G", TCross: 43210.5, Tau: 33.3, Profile: ProfileGaussian, Scale: 1e-13}
+	b.Run("phase", func(b *testing.B) {
+		dst := make([]float64, n)
+		for b.Loop() {
+			if err := RenderPhase(dst, times, c); err != nil {
+				b.Fatal(err)
+			}
+		}
+		b.ReportMetric(float64(n)*float64(b.N)/b.Elapsed().Seconds(), "samples/s")
+		b.ReportMetric(float64(b.Elapsed().Nanoseconds())/(float64(n)*float64(b.N)), "ns/sample")
+	})
+	b.Run("frequency", func(b *testing.B) {
+		dst := make([]float64, n-1)
+		for b.Loop() {
+			if err := RenderFrequency(dst, times, c); err != nil {
+				b.Fatal(err)
+			}
+		}
+		b.ReportMetric(float64(n-1)*float64(b.N)/b.Elapsed().Seconds(), "samples/s")
+		b.ReportMetric(float64(b.Elapsed().Nanoseconds())/(float64(n-1)*float64(b.N)), "ns/sample")
+	})
+}
+
 // BenchmarkSample: drawing one day of walls at a 1-minute mean interval.
 func BenchmarkSample(b *testing.B) {
 	p := testPopulation()

@@ -216,3 +216,28 @@ func TestLinearApproximationBound(t *testing.T) {
 		}
 	}
 }
+
+// Ground stations: the Earth is crossed in about 2R_E/v = 42 s at 300 km/s
+// (physics.md §3.5, R_E = 6371 km). Station speeds (≤ 465 m/s) shift each
+// crossing by at most R_E·465/v² ≈ 0.03 s.
+func TestEarthSweepDuration(t *testing.T) {
+	const R, v = 6.371e6, 3e5
+	rng := rand.New(rand.NewPCG(23, 29))
+	w := effWall(randomUnit(rng), v, 1e7, 500, 7.47e9, 1e13, ProfileGaussian)
+	first, last := math.Inf(1), math.Inf(-1)
+	for i := range 2000 {
+		lat, lon := math.Asin(2*rng.Float64()-1), 2*math.Pi*rng.Float64()
+		c, err := w.Cross("S", "hmaser", station(R, lat, lon))
+		if err != nil {
+			t.Fatalf("station %d: %v", i, err)
+		}
+		first, last = math.Min(first, c.TCross), math.Max(last, c.TCross)
+	}
+	sweep := last - first
+	if sweep > 2*R/v+0.1 || sweep < 0.97*2*R/v {
+		t.Errorf("Earth sweep %.2f s, want ≈ 2R/v = %.2f s", sweep, 2*R/v)
+	}
+	if !scalar.EqualWithinAbs(2*R/v, 42, 0.5) {
+		t.Errorf("2R/v = %g s, physics.md §3.5 gives 42 s", 2*R/v)
+	}
+}

@@ -28,26 +28,20 @@ func (c Crossing) FrequencyAt(t float64) float64 {
 // PhaseAt returns the accumulated phase (bias) perturbation
 // X(t) = ∫_{−∞}^{t} δν/ν dt′ = Scale·Tau·S((t − TCross)/Tau) in s, in closed form.
 func (c Crossing) PhaseAt(t float64) float64 {
-	u := (t - c.TCross) / c.Tau
-	p := c.Profile
-	if L := p.tail(); u < -L {
-		return 0
-	} else if u > L {
-		return c.Scale * c.Tau * p.Area()
-	}
-	return c.Scale * c.Tau * p.Cumulative(u)
+	r := c.renderer()
+	return r.phase(t)
 }
 
 // MeanFrequency returns the fractional frequency averaged exactly over
 // [ta, tb], [X(tb) − X(ta)]/(tb − ta), computed without cancellation in the
 // tails. A wall much thinner than the interval keeps its full area.
 func (c Crossing) MeanFrequency(ta, tb float64) float64 {
-	ua, ub := (ta-c.TCross)/c.Tau, (tb-c.TCross)/c.Tau
-	p := c.Profile
-	if L := p.tail(); (ua < -L && ub < -L) || (ua > L && ub > L) {
+	r := c.renderer()
+	ua, ub := (ta-c.TCross)*r.inv, (tb-c.TCross)*r.inv
+	if (ua < -r.tail && ub < -r.tail) || (ua > r.tail && ub > r.tail) {
 		return 0
 	}
-	return c.Scale * c.Tau * p.Between(ua, ub) / (tb - ta)
+	return r.amp * c.Profile.Between(ua, ub) / (tb - ta)
 }
 
 // RenderPhase adds the clock's phase perturbation X(t) in s at each of times
@@ -60,10 +54,35 @@ func RenderPhase(dst, times []float64, c Crossing) error {
 	if err := c.validRender(); err != nil {
 		return err
 	}
+	r := c.renderer()
 	for k, t := range times {
-		dst[k] += c.PhaseAt(t)
+		dst[k] += r.phase(t)
 	}
 	return nil
+}
+
+// renderer caches the per-crossing constants of the sample loops.
+type renderer struct {
+	c         Crossing
+	inv, tail float64 // 1/Tau, profile tail in u
+	amp, step float64 // Scale·Tau, full step
+}
+
+func (c Crossing) renderer() renderer {
+	a := c.Scale * c.Tau
+	return renderer{c: c, inv: 1 / c.Tau, tail: c.Profile.tail(), amp: a, step: a * c.Profile.Area()}
+}
+
+// phase equals c.PhaseAt(t) up to rounding in (t − TCross)/Tau.
+func (r *renderer) phase(t float64) float64 {
+	u := (t - r.c.TCross) * r.inv
+	if u < -r.tail {
+		return 0
+	}
+	if u > r.tail {
+		return r.step
+	}
+	return r.amp * r.c.Profile.Cumulative(u)
 }
 
 // RenderPhaseGrid is RenderPhase on the uniform grid t_k = start + k·step (s).
@@ -74,8 +93,9 @@ func RenderPhaseGrid(dst []float64, start, step float64, c Crossing) error {
 	if err := c.validRender(); err != nil {
 		return err
 	}
+	r := c.renderer()
 	for k := range dst {
-		dst[k] += c.PhaseAt(start + float64(k)*step)
+		dst[k] += r.phase(start + float64(k)*step)
 	}
 	return nil
 }
@@ -96,8 +116,14 @@ func RenderFrequency(dst, times []float64, c Crossing) error {
 			return fmt.Errorf("inject: render frequency: epochs %g s and %g s at index %d do not increase", times[k], times[k+1], k)
 		}
 	}
+	r := c.renderer()
+	ua := (times[0] - c.TCross) * r.inv
 	for k := range dst {
-		dst[k] += c.MeanFrequency(times[k], times[k+1])
+		ub := (times[k+1] - c.TCross) * r.inv
+		if !((ua < -r.tail && ub < -r.tail) || (ua > r.tail && ub > r.tail)) {
+			dst[k] += r.amp * c.Profile.Between(ua, ub) / (times[k+1] - times[k])
+		}
+		ua = ub
 	}
 	return nil
 }

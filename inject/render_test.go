@@ -127,6 +127,15 @@ func TestRenderPhaseAdds(t *testing.T) {
 			t.Errorf("k=%d: RenderPhase %g, grid %g, want %g", k, dst[k], grid[k], want)
 		}
 	}
+	y := []float64{0.5, 0.5, 0.5}
+	if err := RenderFrequency(y, times, c); err != nil {
+		t.Fatal(err)
+	}
+	for k := range y {
+		if want := 0.5 + c.MeanFrequency(times[k], times[k+1]); y[k] != want {
+			t.Errorf("interval %d: RenderFrequency %g, MeanFrequency %g", k, y[k], want)
+		}
+	}
 	if err := RenderPhase(dst[:2], times, c); err == nil {
 		t.Error("length mismatch accepted")
 	}
