@@ -61,13 +61,19 @@ type Kepler struct {
 	FitHours   float64 // fit interval half-width is FitHours/2 around toe; +Inf = unlimited
 	GEO        bool    // BeiDou GEO: use the GEO rotation of BDS-SIS-ICD §5.2.4.12
 
-	mu, omegaE float64 // set by Prepare
+	// Set by Prepare (call it again after changing any field above).
+	mu, omegaE float64
 	toeSOW     float64 // toe seconds of (system) week, s
+	a, n, q    float64 // semi-major axis (m), corrected mean motion (rad/s), √(1−e²)
+	sw, cw     float64 // sin ω, cos ω
+	si0, ci0   float64 // sin i0, cos i0
 	prepared   bool
 }
 
-// Prepare fills the constants that depend on the system; the readers and
-// Walker call it, and PosVel calls it on an unprepared value (a copy).
+// Prepare fills the constants that depend on the system and caches derived
+// quantities; the readers and Walker call it, PosVel calls it on a copy of
+// an unprepared value, and a caller that changes fields of a prepared
+// record must call it again.
 // It returns an error for an unknown system or unphysical elements.
 func (k *Kepler) Prepare() error {
 	switch k.ID.System() {
@@ -93,6 +99,11 @@ func (k *Kepler) Prepare() error {
 		ref = ref.Add(-BDTOffset)
 	}
 	_, k.toeSOW = ref.WeekSOW()
+	k.a = k.SqrtA * k.SqrtA
+	k.n = math.Sqrt(k.mu/(k.a*k.a*k.a)) + k.DeltaN
+	k.q = math.Sqrt(1 - k.Ecc*k.Ecc)
+	k.sw, k.cw = math.Sincos(k.Omega)
+	k.si0, k.ci0 = math.Sincos(k.I0)
 	k.prepared = true
 	return nil
 }
@@ -138,9 +149,7 @@ func (k *Kepler) ClockBias(t Time) float64 {
 func (k *Kepler) Relativistic(t Time) float64 {
 	kk := k.ensure()
 	tk := t.Sub(kk.Toe)
-	a := kk.SqrtA * kk.SqrtA
-	n := math.Sqrt(kk.mu/(a*a*a)) + kk.DeltaN
-	_, se, _ := solveKepler(kk.M0+n*tk, kk.Ecc)
+	_, se, _ := solveKepler(kk.M0+kk.n*tk, kk.Ecc)
 	f := -2 * math.Sqrt(kk.mu) / (SpeedOfLight * SpeedOfLight)
 	return f * kk.Ecc * kk.SqrtA * se
 }
@@ -157,33 +166,55 @@ func (k *Kepler) ensure() *Kepler {
 }
 
 // solveKepler solves M = E − e·sin E for E and returns E, sin E, cos E.
-// It starts from E₀ = M + e·sin M and applies Newton steps, updating sin and
-// cos by the angle-addition formulas with a 5th-order Taylor series of the
-// (small) step, which keeps it to one library Sincos per call; it reaches
-// |ΔE| < 1e-15 rad in 3–4 steps for e ≤ 0.2 (IS-GPS-200 §20.3.3.4.3 gives
-// the Newton form; the incremental sin/cos update is our own).
+// It starts from E₀ = M + e·sin M/(1 − e·cos M) and applies Newton steps
+// (IS-GPS-200 §20.3.3.4.3 gives the Newton form), updating sin and cos by
+// the angle-addition formulas with Taylor series of the step instead of new
+// library calls (our own arrangement): one Sincos per call for e ≲ 0.05,
+// |ΔE| < 1e-15 rad in 2–4 steps for e ≤ 0.2 (TestSolveKepler checks the
+// residual for e up to 0.85).
 func solveKepler(m, e float64) (ea, se, ce float64) {
-	m = math.Remainder(m, 2*math.Pi)
-	sm := math.Sin(m)
-	ea = m + e*sm
-	se, ce = math.Sincos(ea)
-	for range 12 {
-		f := ea - e*se - m
-		d := -f / (1 - e*ce)
+	const twoPi = 2 * math.Pi
+	m -= twoPi * math.Floor(m/twoPi+0.5)
+	sm, cm := math.Sincos(m)
+	d := e * sm / (1 - e*cm)
+	ea = m + d
+	if math.Abs(d) < 0.05 {
+		sd, cd := sinCosSmall(d)
+		se, ce = sm*cd+cm*sd, cm*cd-sm*sd
+	} else {
+		se, ce = math.Sincos(ea)
+	}
+	for range 20 {
+		d = -(ea - e*se - m) / (1 - e*ce)
 		ea += d
-		if math.Abs(d) > 1e-2 {
+		switch ad := math.Abs(d); {
+		case ad > 0.05:
 			se, ce = math.Sincos(ea)
 			continue
+		case ad < 1e-4: // sin d = d − d³/6, cos d = 1 − d²/2 to < 1e-17
+			d2 := d * d
+			sd, cd := d*(1-d2/6), 1-d2/2
+			se, ce = se*cd+ce*sd, ce*cd-se*sd
+		default:
+			sd, cd := sinCosSmall(d)
+			se, ce = se*cd+ce*sd, ce*cd-se*sd
 		}
-		d2 := d * d
-		sd := d * (1 - d2/6*(1-d2/20))
-		cd := 1 - d2/2*(1-d2/12*(1-d2/30))
-		se, ce = se*cd+ce*sd, ce*cd-se*sd
-		if math.Abs(d) < 1e-15 {
+		// Newton converges quadratically: after a step |ΔE| < 1e-8 the
+		// remaining error is below e·ΔE²/2 < 1e-16 rad.
+		if math.Abs(d) < 1e-8 {
 			break
 		}
 	}
 	return ea, se, ce
+}
+
+// sinCosSmall returns sin d and cos d for |d| ≤ 0.05 from their Taylor
+// series to d⁸ (truncation error < d⁹/9! ≈ 5e-18).
+func sinCosSmall(d float64) (s, c float64) {
+	d2 := d * d
+	s = d * (1 - d2/6*(1-d2/20*(1-d2/42)))
+	c = 1 - d2/2*(1-d2/12*(1-d2/30*(1-d2/56)))
+	return s, c
 }
 
 // PosVel returns the Earth-fixed position (m) and velocity (m/s) at GPS
@@ -208,30 +239,38 @@ func (k *Kepler) Pos(t Time) [3]float64 {
 }
 
 func (k *Kepler) posVel(tk float64) (pos, vel [3]float64) {
-	a := k.SqrtA * k.SqrtA              // step 1 of Table 20-IV
-	n0 := math.Sqrt(k.mu / (a * a * a)) // step 1 of Table 20-IV
-	n := n0 + k.DeltaN                  // step 1 of Table 20-IV
-	mk := k.M0 + n*tk                   // step 3 of Table 20-IV
-	_, se, ce := solveKepler(mk, k.Ecc) // step 4 of Table 20-IV
-
-	q := math.Sqrt(1 - k.Ecc*k.Ecc)
-	den := 1 - k.Ecc*ce
-	nu := math.Atan2(q*se, ce-k.Ecc) // step 5 of Table 20-IV
-	phi := nu + k.Omega              // step 6 of Table 20-IV
-	s2, c2 := math.Sincos(2 * phi)
+	a, n, q, e := k.a, k.n, k.q, k.Ecc // step 1 of Table 20-IV (cached by Prepare)
+	mk := k.M0 + n*tk                  // step 3
+	_, se, ce := solveKepler(mk, e)    // step 4
+	den := 1 - e*ce
+	iden := 1 / den
+	// Step 5–6 without atan2: sin and cos of ν from E, then of Φ = ν + ω.
+	snu, cnu := q*se*iden, (ce-e)*iden
+	sphi, cphi := snu*k.cw+cnu*k.sw, cnu*k.cw-snu*k.sw
+	s2, c2 := 2*sphi*cphi, cphi*cphi-sphi*sphi // sin 2Φ, cos 2Φ
 	du := k.Cus*s2 + k.Cuc*c2
 	dr := k.Crs*s2 + k.Crc*c2
 	di := k.Cis*s2 + k.Cic*c2
-	u := phi + du // step 7 of Table 20-IV
+	var su, cu float64 // step 7: u = Φ + δu
+	if math.Abs(du) < 0.05 {
+		sd, cd := sinCosSmall(du)
+		su, cu = sphi*cd+cphi*sd, cphi*cd-sphi*sd
+	} else {
+		su, cu = math.Sincos(math.Atan2(sphi, cphi) + du)
+	}
 	r := a*den + dr
-	inc := k.I0 + di + k.IDot*tk
-	su, cu := math.Sincos(u)
-	xp, yp := r*cu, r*su // step 8 of Table 20-IV
-	si, ci := math.Sincos(inc)
-	edot := n / den // rates: time derivatives of steps 3–8
-	nudot := edot * q / den
+	var si, ci float64 // i = i0 + δi + IDOT·tk
+	if dInc := di + k.IDot*tk; math.Abs(dInc) < 0.05 {
+		sd, cd := sinCosSmall(dInc)
+		si, ci = k.si0*cd+k.ci0*sd, k.ci0*cd-k.si0*sd
+	} else {
+		si, ci = math.Sincos(k.I0 + dInc)
+	}
+	xp, yp := r*cu, r*su // step 8
+	edot := n * iden     // rates: time derivatives of steps 3–8
+	nudot := edot * q * iden
 	udot := nudot * (1 + 2*(k.Cus*c2-k.Cuc*s2))
-	rdot := a*k.Ecc*se*edot + 2*nudot*(k.Crs*c2-k.Crc*s2)
+	rdot := a*e*se*edot + 2*nudot*(k.Crs*c2-k.Crc*s2)
 	idot := k.IDot + 2*nudot*(k.Cis*c2-k.Cic*s2)
 	xpd := rdot*cu - r*udot*su
 	ypd := rdot*su + r*udot*cu
@@ -257,9 +296,9 @@ func (k *Kepler) posVel(tk float64) (pos, vel [3]float64) {
 	}
 
 	omd := k.OmegaD - k.omegaE
-	om := k.Omega0 + omd*tk - k.omegaE*k.toeSOW // 9
+	om := k.Omega0 + omd*tk - k.omegaE*k.toeSOW // step 9
 	so, co := math.Sincos(om)
-	x := xp*co - yp*ci*so // 10
+	x := xp*co - yp*ci*so // step 10
 	y := xp*so + yp*ci*co
 	z := yp * si
 	pos = [3]float64{x, y, z}

@@ -94,14 +94,18 @@ func parseNavFloat(s string) (float64, bool) {
 	return v, true
 }
 
-// ReadNavFrom reads a RINEX navigation file from r; name is used in error
-// messages. Supported: RINEX 2.x GPS and GLONASS, 3.02–3.05 and 4.00
+// ReadNavFrom reads a RINEX navigation file from in (plain or gzip); name
+// is used in error messages. Supported: RINEX 2.x GPS and GLONASS, 3.02–3.05 and 4.00
 // (mixed); GPS/QZSS LNAV, Galileo I/NAV and F/NAV, BeiDou D1/D2, GLONASS
 // FDMA records. Other systems and message types are counted in
 // Unsupported; a malformed record is an error naming file:line and what
 // was expected.
 func ReadNavFrom(in io.Reader, name string) (*Nav, error) {
-	sc := bufio.NewScanner(in)
+	rd, err := maybeGunzip(in, name)
+	if err != nil {
+		return nil, err
+	}
+	sc := bufio.NewScanner(rd)
 	sc.Buffer(make([]byte, 0, 256), 1<<20)
 	r := &navReader{sc: sc, name: name}
 	n := &Nav{Name: name, Unsupported: map[string]int{}, Other: map[string]int{}}

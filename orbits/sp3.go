@@ -86,6 +86,21 @@ func OpenFile(path string) (io.ReadCloser, error) {
 	}{br, f}, nil
 }
 
+// maybeGunzip returns a reader that decompresses r when it starts with the
+// gzip magic bytes.
+func maybeGunzip(r io.Reader, name string) (io.Reader, error) {
+	br := bufio.NewReader(r)
+	magic, _ := br.Peek(2)
+	if len(magic) == 2 && magic[0] == 0x1f && magic[1] == 0x8b {
+		zr, err := gzip.NewReader(br)
+		if err != nil {
+			return nil, fmt.Errorf("orbits: %s: could not open gzip stream: %w", name, err)
+		}
+		return zr, nil
+	}
+	return br, nil
+}
+
 // ReadSP3File reads an SP3 file, gzip-compressed or not.
 func ReadSP3File(path string) (*SP3, error) {
 	rc, err := OpenFile(path)
@@ -162,9 +177,14 @@ func parseSP3Epoch(line string, le lineErr) (int64, error) {
 	return calendarCount(v[0], v[1], v[2], v[3], v[4], sec), nil
 }
 
-// ReadSP3 reads an SP3-c or SP3-d file; name is used in error messages.
-// Epochs on GLO/UTC, BDT or TAI time systems are converted to GPS time.
-func ReadSP3(r io.Reader, name string) (*SP3, error) {
+// ReadSP3 reads an SP3-c or SP3-d file, plain or gzip-compressed; name is
+// used in error messages. Epochs on GLO/UTC, BDT or TAI time systems are
+// converted to GPS time.
+func ReadSP3(in io.Reader, name string) (*SP3, error) {
+	r, err := maybeGunzip(in, name)
+	if err != nil {
+		return nil, err
+	}
 	sc := bufio.NewScanner(r)
 	sc.Buffer(make([]byte, 0, 256), 1<<20)
 	s := &SP3{}

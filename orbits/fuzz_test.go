@@ -1,0 +1,106 @@
+package orbits
+
+import (
+	"bytes"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+func TestMalformedFiles(t *testing.T) {
+	// Each defect gives one clear error naming file:line and what was
+	// expected (corpus described in testdata/malformed/README.txt).
+	for _, c := range []struct {
+		file string
+		want []string
+	}{
+		{"nav_truncated.rnx", []string{"nav_truncated.rnx:27:", "G01 record has 5 broadcast orbit lines, want 7"}},
+		{"nav_badnumber.rnx", []string{"nav_badnumber.rnx:29:", `bad number "-4.2971x2359276e-06" in field 1 of broadcast orbit line 2`}},
+		{"nav_linecount.rnx", []string{"nav_linecount.rnx:35:", "R01 record has 2 broadcast orbit lines, want 3"}},
+		{"nav_version.rnx", []string{"nav_version.rnx:1:", "unknown RINEX navigation version 5"}},
+		{"sp3_truncated.sp3", []string{"sp3_truncated.sp3:60:", "no EOF"}},
+		{"sp3_badnumber.sp3", []string{"sp3_badnumber.sp3:25:", `bad number`, "want F14.6"}},
+		{"sp3_linecount.sp3", []string{"sp3_linecount.sp3:", "announces 79 satellites but the + lines list 78"}},
+		{"sp3_version.sp3", []string{"sp3_version.sp3:1:", `unknown SP3 version "#e"`}},
+	} {
+		path := filepath.Join("testdata", "malformed", c.file)
+		var err error
+		if strings.HasSuffix(c.file, ".sp3") {
+			_, err = ReadSP3File(path)
+		} else {
+			_, err = ReadNav(path)
+		}
+		if err == nil {
+			t.Errorf("%s: no error", c.file)
+			continue
+		}
+		for _, w := range c.want {
+			if !strings.Contains(err.Error(), w) {
+				t.Errorf("%s: error %q lacks %q", c.file, err, w)
+			}
+		}
+		if strings.Count(err.Error(), "orbits:") != 1 {
+			t.Errorf("%s: error %q is not a single message", c.file, err)
+		}
+	}
+}
+
+func addSeeds(f *testing.F, glob string) {
+	paths, _ := filepath.Glob(glob)
+	for _, p := range paths {
+		if b, err := os.ReadFile(p); err == nil && len(b) < 64<<10 {
+			f.Add(b)
+		}
+	}
+}
+
+// FuzzReadNav: the nav reader never panics, and whatever it accepts can be
+// propagated without panicking.
+func FuzzReadNav(f *testing.F) {
+	addSeeds(f, "testdata/malformed/nav_*.rnx")
+	if b, err := os.ReadFile("testdata/malformed/nav_badnumber.rnx"); err == nil {
+		f.Add(bytes.Replace(b, []byte("x"), []byte("3"), 1)) // the repaired, valid file
+	}
+	f.Fuzz(func(t *testing.T, data []byte) {
+		n, err := ReadNavFrom(bytes.NewReader(data), "fuzz")
+		if err != nil {
+			if !strings.HasPrefix(err.Error(), "orbits: ") {
+				t.Fatalf("error without package prefix: %v", err)
+			}
+			return
+		}
+		for _, r := range n.Records {
+			for _, dt := range []float64{-600, 0, 600} {
+				r.PosVel(r.Ref().Add(dt))
+				r.ClockBias(r.Ref().Add(dt))
+				r.Relativistic(r.Ref().Add(dt))
+			}
+		}
+	})
+}
+
+// FuzzReadSP3: the SP3 reader never panics, and an accepted file can be
+// written and read back.
+func FuzzReadSP3(f *testing.F) {
+	addSeeds(f, "testdata/malformed/sp3_*.sp3")
+	if b, err := os.ReadFile("testdata/malformed/sp3_version.sp3"); err == nil {
+		f.Add(bytes.Replace(b, []byte("#e"), []byte("#c"), 1))
+	}
+	f.Fuzz(func(t *testing.T, data []byte) {
+		s, err := ReadSP3(bytes.NewReader(data), "fuzz")
+		if err != nil {
+			if !strings.HasPrefix(err.Error(), "orbits: ") {
+				t.Fatalf("error without package prefix: %v", err)
+			}
+			return
+		}
+		var buf bytes.Buffer
+		if err := WriteSP3(&buf, s); err != nil {
+			return // e.g. a value that does not fit F14.6
+		}
+		if _, err := ReadSP3(&buf, "rewritten"); err != nil {
+			t.Fatalf("rewritten file does not read back: %v", err)
+		}
+	})
+}
