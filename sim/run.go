@@ -424,10 +424,6 @@ func sensitivity(s *scenarios.Scenario, family string) map[string]float64 {
 	return map[string]float64{"alpha": k.KAlpha, "me": k.KMe, "mp": k.KMp, "mq": k.KMq()}
 }
 
-// marchEquinox2000 returns the March equinox of 2000, 2000-03-20 07:35 UTC
-// (from memory), on GPS time (GPS − UTC = 13 s in 2000).
-func marchEquinox2000() orbits.Time { return orbits.FromCalendar(2000, 3, 20, 7, 35, 13) }
-
 func buildWalls(s *scenarios.Scenario, seed uint64, trial int, start orbits.Time, span float64) ([]inject.Wall, error) {
 	w := s.Walls
 	if w.Population == nil && len(w.Events) == 0 {
@@ -493,9 +489,7 @@ func buildWalls(s *scenarios.Scenario, seed uint64, trial int, start orbits.Time
 		}
 		halo := inject.StandardHalo()
 		halo.V0, halo.VEsc, halo.EarthOrbit = p.V0.MetresPerSecond(), p.VEsc.MetresPerSecond(), p.EarthOrbit
-		const tropicalYear = 365.2422 * 86400 // s (from memory)
-		eq := marchEquinox2000().Sub(start)
-		halo.EquinoxT = eq - math.Floor(eq/tropicalYear)*tropicalYear
+		halo.EquinoxT = inject.EquinoxOffset(start.GoUTC().Unix())
 		pop := inject.Population{MeanInterval: p.ArrivalInterval.Seconds(), Span: span, Halo: halo, Orientation: orient,
 			Thickness: w.Thickness.Metres(), Profile: prof, Amplitude: amp, Coupling: cp, FirstID: len(walls)}
 		drawn, err := pop.Sample(SeedStream(seed, trial, "", "population"))
