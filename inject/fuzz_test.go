@@ -2,6 +2,7 @@ package inject
 
 import (
 	"math"
+	"math/rand/v2"
 	"testing"
 )
 
@@ -81,6 +82,30 @@ func FuzzParse(f *testing.F) {
 		a2, err := s.Resolve(p, c, d, v)
 		if err == nil && (!(a2 >= 0) || math.IsInf(a2, 0)) {
 			t.Fatalf("A² %g accepted", a2)
+		}
+	})
+}
+
+// FuzzPopulation: arbitrary population settings never panic or hang; the
+// walls of an accepted population are valid.
+func FuzzPopulation(f *testing.F) {
+	f.Add(3600.0, 86400.0, 220e3, 544e3, 2e4, 1e7, uint8(1), true, 1e11)
+	f.Add(1.0, 10.0, 1.0, 0.0, 7e8, 1.0, uint8(2), false, 1.0)
+	f.Fuzz(func(t *testing.T, T, span, v0, vesc, minSpeed, d float64, orient uint8, flux bool, lambda float64) {
+		if span/T > 1e4 {
+			return // keep each run short
+		}
+		p := Population{MeanInterval: T, Span: span, Halo: Halo{V0: v0, VEsc: vesc}, Orientation: Orientation(orient % 3),
+			FluxWeighted: flux, MinSpeed: minSpeed, Thickness: d, Profile: ProfileGaussian,
+			Amplitude: AmplitudeSpec{Mode: AmplitudeStep, Step: 1e-11}, Coupling: Coupling{Mode: CouplingEff, LambdaEff: lambda}}
+		walls, err := p.Sample(rand.New(rand.NewPCG(1, 2)))
+		if err != nil {
+			return
+		}
+		for i := range walls {
+			if err := walls[i].Validate(); err != nil {
+				t.Fatalf("sampled wall invalid: %v", err)
+			}
 		}
 	})
 }

@@ -83,8 +83,8 @@ func (h Halo) Validate() error {
 	if !(h.V0 > 0) || math.IsInf(h.V0, 0) {
 		return fmt.Errorf("inject: halo v0 %g m/s must be positive and finite", h.V0)
 	}
-	if h.VEsc != 0 && (!(h.VEsc > 0) || math.IsInf(h.VEsc, 0)) {
-		return fmt.Errorf("inject: halo escape speed %g m/s must be positive and finite (0 = untruncated)", h.VEsc)
+	if h.VEsc != 0 && (!(h.VEsc >= h.V0/2) || math.IsInf(h.VEsc, 0)) {
+		return fmt.Errorf("inject: halo escape speed %g m/s must be finite and at least v0/2 = %g m/s (0 = untruncated)", h.VEsc, h.V0/2)
 	}
 	for i, u := range h.SunPeculiar {
 		if math.IsNaN(u) || math.IsInf(u, 0) {
@@ -123,6 +123,7 @@ func (h Halo) EarthVelocity(t float64) [3]float64 {
 
 // SampleGalactic draws a dark-matter velocity in the galactic rest frame,
 // m/s: isotropic Gaussian with σ_1D = v0/√2, rejected at |v| ≥ v_esc.
+// The halo must pass Validate (v_esc ≥ v0/2 keeps the acceptance above 7 %).
 func (h Halo) SampleGalactic(rng *rand.Rand) [3]float64 {
 	s := h.V0 / math.Sqrt2
 	for {

@@ -203,7 +203,10 @@ func (p Population) Sample(rng *rand.Rand) ([]Wall, error) {
 		if len(walls) == p.maxEvents() {
 			return nil, fmt.Errorf("inject: more than %d walls drawn", p.maxEvents())
 		}
-		n, v := p.drawVelocity(rng, t)
+		n, v, err := p.drawVelocity(rng, t)
+		if err != nil {
+			return nil, err
+		}
 		a2, err := amp.Resolve(p.Profile, p.Coupling, p.Thickness, v)
 		if err != nil {
 			return nil, err
@@ -214,10 +217,13 @@ func (p Population) Sample(rng *rand.Rand) ([]Wall, error) {
 	return walls, nil
 }
 
+// maxDraws caps the rejection loop of drawVelocity.
+const maxDraws = 100000
+
 // drawVelocity returns the wall's unit normal (celestial) and normal speed (m/s).
-func (p Population) drawVelocity(rng *rand.Rand, t float64) ([3]float64, float64) {
+func (p Population) drawVelocity(rng *rand.Rand, t float64) ([3]float64, float64, error) {
 	vmax := p.Halo.VEsc + vnorm(p.Halo.SunVelocity()) + EarthOrbitalSpeed
-	for {
+	for range maxDraws {
 		v := p.Halo.SampleRelative(rng, t)
 		var n [3]float64
 		var s float64
@@ -241,8 +247,9 @@ func (p Population) drawVelocity(rng *rand.Rand, t float64) ([3]float64, float64
 		if p.FluxWeighted && rng.Float64()*vmax >= s {
 			continue
 		}
-		return n, s
+		return n, s, nil
 	}
+	return [3]float64{}, 0, fmt.Errorf("inject: no wall speed above the minimum %g m/s in %d draws", p.minSpeed(), maxDraws)
 }
 
 // isotropic draws a uniformly distributed unit vector.
