@@ -50,6 +50,16 @@ func (m AmplitudeMode) String() string {
 	return fmt.Sprintf("AmplitudeMode(%d)", int(m))
 }
 
+// ParseAmplitudeMode accepts "density", "peak", "step" and "direct".
+func ParseAmplitudeMode(s string) (AmplitudeMode, error) {
+	for m := AmplitudeDensity; m <= AmplitudeDirect; m++ {
+		if s == m.String() {
+			return m, nil
+		}
+	}
+	return 0, fmt.Errorf("inject: unknown amplitude mode %q (want density, peak, step or direct)", s)
+}
+
 // AmplitudeSpec specifies a wall's amplitude.
 type AmplitudeSpec struct {
 	Mode AmplitudeMode

@@ -174,6 +174,28 @@ const (
 	CouplingPerConstant
 )
 
+// String returns "effective" or "per-constant".
+func (m CouplingMode) String() string {
+	switch m {
+	case CouplingEff:
+		return "effective"
+	case CouplingPerConstant:
+		return "per-constant"
+	}
+	return fmt.Sprintf("CouplingMode(%d)", int(m))
+}
+
+// ParseCouplingMode accepts "effective" (or "lambda_eff") and "per-constant".
+func ParseCouplingMode(s string) (CouplingMode, error) {
+	switch strings.ToLower(strings.TrimSpace(s)) {
+	case "effective", "lambda_eff", "eff":
+		return CouplingEff, nil
+	case "per-constant", "per_constant", "constants":
+		return CouplingPerConstant, nil
+	}
+	return 0, fmt.Errorf("inject: unknown coupling mode %q (want effective or per-constant)", s)
+}
+
 // ConstantCoupling is the coupling to one constant X: δX/X = ±φⁿ/Λⁿ.
 type ConstantCoupling struct {
 	Lambda   float64 // Λ_X in GeV; 0 means not coupled

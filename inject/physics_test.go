@@ -204,3 +204,32 @@ func TestParseProfile(t *testing.T) {
 		t.Error("unknown profile accepted")
 	}
 }
+
+func TestParseModes(t *testing.T) {
+	for _, m := range []AmplitudeMode{AmplitudeDensity, AmplitudePeak, AmplitudeStep, AmplitudeDirect} {
+		if q, err := ParseAmplitudeMode(m.String()); err != nil || q != m {
+			t.Errorf("amplitude mode %v: %v %v", m, q, err)
+		}
+	}
+	for _, m := range []CouplingMode{CouplingEff, CouplingPerConstant} {
+		if q, err := ParseCouplingMode(m.String()); err != nil || q != m {
+			t.Errorf("coupling mode %v: %v %v", m, q, err)
+		}
+	}
+	for _, o := range []Orientation{OrientAlongVelocity, OrientIsotropic} {
+		if q, err := ParseOrientation(o.String()); err != nil || q != o {
+			t.Errorf("orientation %v: %v %v", o, q, err)
+		}
+	}
+	for _, c := range []Convention{ConventionR, ConventionA} {
+		if q, err := ParseConvention(c.String()); err != nil || q != c {
+			t.Errorf("convention %v: %v %v", c, q, err)
+		}
+	}
+	if _, err := ParseAmplitudeMode("loud"); err == nil {
+		t.Error("unknown amplitude mode accepted")
+	}
+	if _, err := ParseCouplingMode("strong"); err == nil {
+		t.Error("unknown coupling mode accepted")
+	}
+}
