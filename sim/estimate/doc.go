@@ -43,5 +43,23 @@
 // and continuous segment). Results are biases relative to the reference
 // clock, s, RINEX clock sign.
 //
+// What estimation does to a wall's link delay: at each epoch the delays
+// are projected onto the clocks by the least-squares solution operator of
+// that epoch's network (a delay on a satellite's only link goes wholly into
+// that satellite's clock; in a loop it is shared, see TestWallTransferHand).
+// Because the network changes from epoch to epoch, the accumulated
+// epoch differences do not telescope exactly, so after a wall has passed
+// each clock may keep a small constant offset; the code anchor spreads the
+// code's share of the delay over each segment.
+//
+// Simplifications (stated, not hidden): the satellite clock enters at the
+// reception epoch's value (the 67–86 ms emission offset is below the
+// products' time resolution); orbits, station coordinates and the
+// troposphere are known exactly (no zenith-delay estimation); cycle slips on
+// a satellite seen by a single station cannot be detected and go into that
+// satellite's clock. Numerical floor: c·(b_r − b_s) for 1e-4 s clocks is
+// rounded to ~2e-12 m ≈ 6e-21 s per observation, far below real noise but
+// visible in noise-free runs at that level.
+//
 // Units: SI inside (m, s, rad); degrees only in links.csv.
 package estimate

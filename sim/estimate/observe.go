@@ -58,6 +58,9 @@ type ObsConfig struct {
 	// SlipProbability is the probability per link and epoch of a cycle
 	// slip (integer jumps of −3…3 cycles on L1 and L2, not both zero).
 	SlipProbability float64
+	// OutlierProbability is the probability per observation of a code
+	// outlier: an extra error of ±(20…50)·CodeNoise (at least ±10…25 m).
+	OutlierProbability float64
 	// LinkRecordMin is the smallest |delay| (s) of a link written as a
 	// LinkRecord; 0 keeps every link with a non-zero delay.
 	LinkRecordMin float64
@@ -72,15 +75,20 @@ type Observations struct {
 	Stations   []string // station ids (index = Sta)
 	Start      []int    // len Epochs+1
 
-	Sat, Sta []int16   // link ends
-	Code     []float64 // ionosphere-free pseudorange, m
-	Phase    []float64 // ionosphere-free carrier phase, m (with ambiguity)
+	Sat, Sta []int16 // link ends
+	// CodeOC and PhaseOC are the ionosphere-free pseudorange and carrier
+	// phase minus Computed, m (the observable is Computed + CodeOC). They
+	// are stored apart from the ~2e7 m range so that link delays far below
+	// the float64 resolution of a range (3.7e-9 m ≈ 1e-17 s) survive.
+	CodeOC   []float64
+	PhaseOC  []float64 // includes the arc's ambiguity
 	Computed []float64 // known model: geometric range + troposphere, m
 	Elev     []float64 // elevation at the station, rad
 
 	// Truth diagnostics (not used by Solve).
 	WallDelay []float64 // total wall link delay on the link, s
 	Slip      []bool    // a cycle slip occurred at this observation
+	Outlier   []bool    // the code observation carries an outlier
 
 	// Links lists the links with a wall delay (see ObsConfig.LinkRecordMin).
 	Links []LinkRecord
@@ -125,6 +133,9 @@ func Simulate(net *Network, truth *Truth, cfg ObsConfig, rng *rand.Rand) (*Obser
 	}
 	if !(cfg.SlipProbability >= 0 && cfg.SlipProbability <= 1) {
 		return nil, fmt.Errorf("estimate: slip probability %g outside [0, 1]", cfg.SlipProbability)
+	}
+	if !(cfg.OutlierProbability >= 0 && cfg.OutlierProbability <= 1) {
+		return nil, fmt.Errorf("estimate: outlier probability %g outside [0, 1]", cfg.OutlierProbability)
 	}
 	if cfg.CodeNoise < 0 || cfg.PhaseNoise < 0 || math.IsNaN(cfg.CodeNoise) || math.IsNaN(cfg.PhaseNoise) {
 		return nil, fmt.Errorf("estimate: noise levels %g m (code), %g m (phase) must be non-negative", cfg.CodeNoise, cfg.PhaseNoise)
@@ -230,7 +241,7 @@ func Simulate(net *Network, truth *Truth, cfg ObsConfig, rng *rand.Rand) (*Obser
 					sig = 1 / math.Sin(elev)
 				}
 				clk := speedOfLight * (bR - bS)
-				code := rho + clk + trop + speedOfLight*delay
+				code := clk + speedOfLight*delay // observed minus computed (ρ + T)
 				phase := code
 				if cfg.CodeNoise > 0 {
 					code += cfg.CodeNoise * sig * rng.NormFloat64()
@@ -238,11 +249,22 @@ func Simulate(net *Network, truth *Truth, cfg ObsConfig, rng *rand.Rand) (*Obser
 				if cfg.PhaseNoise > 0 {
 					phase += cfg.PhaseNoise * sig * rng.NormFloat64()
 				}
+				outlier := false
+				if cfg.OutlierProbability > 0 && rng.Float64() < cfg.OutlierProbability {
+					size := math.Max(cfg.CodeNoise, 0.5) * (20 + 30*rng.Float64())
+					if rng.IntN(2) == 0 {
+						size = -size
+					}
+					code += size
+					outlier = true
+				}
 				ls := &links[i*nr+j]
 				if ls.lastEpoch != k-1 || k == 0 {
-					// new arc: integer L1/L2 ambiguities in the IF combination
-					n1 := float64(rng.IntN(2000001) - 1000000)
-					n2 := float64(rng.IntN(2000001) - 1000000)
+					// new arc: integer L1/L2 ambiguities (±1000 cycles, kept small so
+					// that PhaseOC keeps the float64 resolution of CodeOC) in the IF
+					// combination
+					n1 := float64(rng.IntN(2001) - 1000)
+					n2 := float64(rng.IntN(2001) - 1000)
 					ls.amb = AlphaL1*lambda1*n1 - AlphaL2*lambda2*n2
 				}
 				slip := false
@@ -258,12 +280,13 @@ func Simulate(net *Network, truth *Truth, cfg ObsConfig, rng *rand.Rand) (*Obser
 				phase += ls.amb
 				obs.Sat = append(obs.Sat, int16(i))
 				obs.Sta = append(obs.Sta, int16(j))
-				obs.Code = append(obs.Code, code)
-				obs.Phase = append(obs.Phase, phase)
+				obs.CodeOC = append(obs.CodeOC, code)
+				obs.PhaseOC = append(obs.PhaseOC, phase)
 				obs.Computed = append(obs.Computed, rho+trop)
 				obs.Elev = append(obs.Elev, elev)
 				obs.WallDelay = append(obs.WallDelay, delay)
 				obs.Slip = append(obs.Slip, slip)
+				obs.Outlier = append(obs.Outlier, outlier)
 				if len(cfg.Walls) > 0 && delay != 0 && math.Abs(delay) >= cfg.LinkRecordMin {
 					obs.Links = append(obs.Links, LinkRecord{T: tr, Station: st.ID, Satellite: sat.ID,
 						ElevationDeg: elev * 180 / math.Pi, CosIncidence: bestCos, Delay: delay, Bending: bend, Direction: bestDir})

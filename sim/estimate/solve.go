@@ -189,7 +189,7 @@ func Solve(obs *Observations, cfg SolveConfig) (*Solution, error) {
 				if seg[(k-1)*nclk+s] == -1 || seg[(k-1)*nclk+r] == -1 {
 					continue
 				}
-				y := (obs.Phase[o] - obs.Computed[o]) - (obs.Phase[po] - obs.Computed[po])
+				y := obs.PhaseOC[o] - obs.PhaseOC[po]
 				v := sigma(o, sp)*sigma(o, sp) + sigma(po, sp)*sigma(po, sp)
 				dl = append(dl, diffLink{s: s, r: r, y: y, w: 1 / v, active: true})
 			}
@@ -364,7 +364,7 @@ func anchor(obs *Observations, seg []int32, cum []float64, nclk, nseg, ns int, s
 					continue
 				}
 				is, ir := k*nclk+int(obs.Sat[o]), k*nclk+ns+int(obs.Sta[o])
-				y := obs.Code[o] - obs.Computed[o] - (cum[ir] - cum[is])
+				y := obs.CodeOC[o] - (cum[ir] - cum[is])
 				sg := sigma(o, sc)
 				w := 1 / (sg * sg)
 				ss, sr := seg[is], seg[ir]
@@ -402,7 +402,7 @@ func anchor(obs *Observations, seg []int32, cum []float64, nclk, nseg, ns int, s
 				}
 				is, ir := k*nclk+int(obs.Sat[o]), k*nclk+ns+int(obs.Sta[o])
 				ss, sr := seg[is], seg[ir]
-				y := obs.Code[o] - obs.Computed[o] - (cum[ir] - cum[is])
+				y := obs.CodeOC[o] - (cum[ir] - cum[is])
 				v := math.Abs(y-(off(sr)-off(ss))) / sigma(o, sc)
 				if v <= thr {
 					continue
@@ -435,7 +435,7 @@ func checkObs(o *Observations) error {
 		return fmt.Errorf("estimate: observations: %d epochs with %d epoch offsets", o.Epochs, len(o.Start))
 	}
 	n := len(o.Sat)
-	if len(o.Sta) != n || len(o.Code) != n || len(o.Phase) != n || len(o.Computed) != n || len(o.Elev) != n {
+	if len(o.Sta) != n || len(o.CodeOC) != n || len(o.PhaseOC) != n || len(o.Computed) != n || len(o.Elev) != n {
 		return fmt.Errorf("estimate: observations: column lengths differ (%d links)", n)
 	}
 	if o.Start[0] != 0 || o.Start[o.Epochs] != n {
@@ -451,7 +451,7 @@ func checkObs(o *Observations) error {
 		if int(o.Sat[i]) < 0 || int(o.Sat[i]) >= ns || int(o.Sta[i]) < 0 || int(o.Sta[i]) >= nr {
 			return fmt.Errorf("estimate: observation %d: satellite %d or station %d out of range", i, o.Sat[i], o.Sta[i])
 		}
-		for _, v := range []float64{o.Code[i], o.Phase[i], o.Computed[i], o.Elev[i]} {
+		for _, v := range []float64{o.CodeOC[i], o.PhaseOC[i], o.Computed[i], o.Elev[i]} {
 			if math.IsNaN(v) || math.IsInf(v, 0) {
 				return fmt.Errorf("estimate: observation %d: value %g not finite", i, v)
 			}

@@ -31,8 +31,24 @@ func LinkColumns() []string {
 // sight and the wall normal), delay_s (total wall link delay, s). Floats are
 // written in the shortest form that parses back exactly.
 func WriteLinksCSV(path string, links []LinkRecord) (FileSum, error) {
+	return writeLinks(path, links, false)
+}
+
+// WriteLinksDetailCSV writes the links.csv columns followed by bending_s
+// (the second-order ray-bending delay, s, reported whether or not it was
+// added to delay_s) and direction_rad (change of the emitter's apparent
+// direction at the station, rad).
+func WriteLinksDetailCSV(path string, links []LinkRecord) (FileSum, error) {
+	return writeLinks(path, links, true)
+}
+
+func writeLinks(path string, links []LinkRecord, detail bool) (FileSum, error) {
 	return writeAtomic(path, func(w *bufio.Writer) error {
-		row := []byte("t_s,station,satellite,elevation_deg,cos_incidence,delay_s\n")
+		row := []byte("t_s,station,satellite,elevation_deg,cos_incidence,delay_s")
+		if detail {
+			row = append(row, ",bending_s,direction_rad"...)
+		}
+		row = append(row, '\n')
 		if _, err := w.Write(row); err != nil {
 			return err
 		}
@@ -48,7 +64,11 @@ func WriteLinksCSV(path string, links []LinkRecord) (FileSum, error) {
 			row = append(row, l.Station...)
 			row = append(row, ',')
 			row = append(row, l.Satellite...)
-			for _, v := range []float64{l.ElevationDeg, l.CosIncidence, l.Delay} {
+			vals := []float64{l.ElevationDeg, l.CosIncidence, l.Delay}
+			if detail {
+				vals = append(vals, l.Bending, l.Direction)
+			}
+			for _, v := range vals {
 				row = append(row, ',')
 				row = strconv.AppendFloat(row, v, 'g', -1, 64)
 			}

@@ -49,6 +49,15 @@ func TestWriteLinksCSV(t *testing.T) {
 	if fi, _ := os.Stat(p); fi.Size() != sum.Bytes || len(sum.SHA256) != 64 {
 		t.Errorf("checksum record %+v for a %d-byte file", sum, fi.Size())
 	}
+	pd := filepath.Join(dir, "links-detail.csv")
+	links[0].Bending, links[0].Direction = -2e-40, 3e-30
+	if _, err := WriteLinksDetailCSV(pd, links); err != nil {
+		t.Fatal(err)
+	}
+	if rd := readCSV(t, pd); len(rd[0]) != 8 || rd[0][6] != "bending_s" || rd[1][6] != "-2e-40" || rd[1][7] != "3e-30" {
+		t.Errorf("detail table %v", rd)
+	}
+	os.Remove(pd)
 	// A bad name fails and leaves neither the file nor a temporary behind.
 	q := filepath.Join(dir, "bad.csv")
 	if _, err := WriteLinksCSV(q, []LinkRecord{{Station: "A,B", Satellite: "G01"}}); err == nil {
