@@ -337,7 +337,8 @@ func TestHaloSpeedDistribution(t *testing.T) {
 	}
 	m2 := quad.Fixed(func(v float64) float64 { return v * v * pdf(v) }, 0, knee, 200, nil, 0) +
 		quad.Fixed(func(v float64) float64 { return v * v * pdf(v) }, knee, vmax, 200, nil, 0)
-	if fw := m2 / meanNum; !scalar.EqualWithinAbs(fw/1e3, 379, 0.5) {
+	// (physics.md's figures are themselves Monte Carlo estimates: ±1 km/s.)
+	if fw := m2 / meanNum; !scalar.EqualWithinAbs(fw/1e3, 379, 1) {
 		t.Errorf("closed-form flux-weighted mean %.2f km/s, physics.md 379 km/s", fw/1e3)
 	}
 	rng := rand.New(rand.NewPCG(31, 37))
