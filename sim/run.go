@@ -591,18 +591,33 @@ func ownPhase(d *Dataset, s *scenarios.Scenario, geo *orbits.Geometry, p clockPl
 		x = make([]float64, nep)
 	}
 	traj := func(t float64) [3]float64 { return geo.Celestial(p.geo, d.Start.Add(t)) }
+	// after[k] collects the full steps that start at sample k; one running
+	// sum adds them, so the cost is O(walls·window + epochs), not
+	// O(walls·epochs).
+	after := make([]float64, nep)
 	for wi := range walls {
 		c, err := walls[wi].Cross(p.id, p.family, traj)
 		if err != nil {
+			if q := traj(walls[wi].T0); math.IsNaN(q[0]) {
+				// The ephemeris does not reach the wall's passage (a
+				// navigation-file orbit near the span edge): no crossing
+				// inside the clock's data, none recorded.
+				continue
+			}
 			r.err = fmt.Errorf("sim: wall %d, clock %s: %w", walls[wi].ID, p.id, err)
 			return r
 		}
 		st := c.Step()
 		r.crossings = append(r.crossings, Crossing{Event: c.Event, Clock: p.id, TCross: c.TCross, Step: st})
-		if err := renderCrossing(x, step, c); err != nil {
+		if err := renderCrossing(x, after, step, c); err != nil {
 			r.err = fmt.Errorf("sim: wall %d, clock %s: %w", walls[wi].ID, p.id, err)
 			return r
 		}
+	}
+	sum := 0.0
+	for k, v := range after {
+		sum += v
+		x[k] += sum
 	}
 	if s.Noise.Relativity && p.orbit != nil {
 		// Periodic relativistic clock term Δt_r = −2 r·v/c² (IS-GPS-200
@@ -646,10 +661,11 @@ func ownPhase(d *Dataset, s *scenarios.Scenario, geo *orbits.Geometry, p clockPl
 }
 
 // renderCrossing adds a crossing's bias perturbation X(t_k), t_k = k·step,
-// to x: sample by sample within renderHalfWidth·τ of the crossing, the
-// full step after that window, nothing before it. Profiles without a
-// finite step (the linear kink) are rendered at every sample.
-func renderCrossing(x []float64, step float64, c inject.Crossing) error {
+// to x sample by sample within renderHalfWidth·τ of the crossing, and its
+// full step to after[k] at the first sample k past that window (the caller
+// adds the running sum of after to x); nothing before the window. Profiles
+// without a finite step (the linear kink) are rendered at every sample.
+func renderCrossing(x, after []float64, step float64, c inject.Crossing) error {
 	st := c.Step()
 	if math.IsNaN(st) || math.IsInf(st, 0) {
 		return inject.RenderPhaseGrid(x, 0, step, c)
@@ -663,8 +679,8 @@ func renderCrossing(x []float64, step float64, c inject.Crossing) error {
 			return err
 		}
 	}
-	for k := max(hi, 0); k < n; k++ {
-		x[k] += st
+	if hi < n {
+		after[max(hi, 0)] += st
 	}
 	return nil
 }

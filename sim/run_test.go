@@ -8,6 +8,7 @@ import (
 	"strings"
 	"testing"
 
+	"wallcross/internal/extdata"
 	"wallcross/scenarios"
 )
 
@@ -165,5 +166,42 @@ func TestDemoRun(t *testing.T) {
 	}
 	if !strings.Contains(string(d.Scenario), `"name":"demo"`) {
 		t.Errorf("scenario JSON %s", d.Scenario[:min(80, len(d.Scenario))])
+	}
+}
+
+// A navigation-file geometry: set A's CDDIS broadcast file (GPS, records
+// 18:00–24:00 of 2021-04-28) drives the satellites over 19:00–22:00.
+func TestRunWithNavigationFile(t *testing.T) {
+	nav := extdata.Path(t, "set_A_2021-118_gps/brdc1180.21n")
+	y := `name: navtest
+time: {start: 2021-04-28T19:00:00, span: 3 h, step: 30 s}
+navigation: {file: ` + filepath.Base(nav) + `, systems: G}
+stations:
+  - {id: WAB2, x: 4327318.171 m, y: 566956.021 m, z: 4636425.977 m, reference: true}
+walls:
+  events: [{t0: 1 h, direction: [0, 1, 0]}]
+`
+	s, err := scenarios.Decode("nav.yaml", []byte(y))
+	if err != nil {
+		t.Fatal(err)
+	}
+	d, err := Run(Config{Scenario: s, BaseDir: filepath.Dir(nav)}, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	// 32 GPS satellites have records in the file (PRNs 1–32, listed with awk
+	// on the record lines; the README's 31 are those also in the CODE SP3)
+	// plus the station.
+	if len(d.Clocks) != 33 || d.Clocks[0].ID != "G01" || d.Clocks[0].Family != "gps-iif-rb" {
+		t.Errorf("%d clocks, first %+v", len(d.Clocks), d.Clocks[0])
+	}
+	if len(d.Crossings) != 33 || d.Orbits == nil || len(d.Orbits.Epochs) != 36 { // 0, 300, …, 10500 s (the last data epoch is 10770 s)
+		t.Errorf("%d crossings, SP3 %v", len(d.Crossings), d.Orbits != nil)
+	}
+	// Satellite positions in orbits.sp3 are at GPS orbit radius (26 560 km
+	// nominal, gnss.md §1; eccentric orbits within ±2 %).
+	p := d.Orbits.Data[0][0].Pos
+	if r := math.Sqrt(p[0]*p[0] + p[1]*p[1] + p[2]*p[2]); math.Abs(r-26.56e6) > 0.02*26.56e6 {
+		t.Errorf("G01 radius %g m", r)
 	}
 }
