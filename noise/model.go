@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"strings"
 )
 
 // Term indexes the five power-law terms of S_y(f) = Σ h_α f^α.
@@ -248,4 +249,23 @@ func steer(x []float64, g float64) {
 		prevFree = free
 		x[k] = out
 	}
+}
+
+// ParseTerm parses a power-law coefficient key: "h2" or "h+2" (white PM),
+// "h1"/"h+1", "h0", "h-1", "h-2", or the abbreviations wpm, fpm, wfm, ffm,
+// rwfm (case-insensitive).
+func ParseTerm(key string) (Term, error) {
+	switch strings.ToLower(strings.TrimSpace(key)) {
+	case "h2", "h+2", "wpm":
+		return WhitePM, nil
+	case "h1", "h+1", "fpm":
+		return FlickerPM, nil
+	case "h0", "wfm":
+		return WhiteFM, nil
+	case "h-1", "ffm":
+		return FlickerFM, nil
+	case "h-2", "rwfm":
+		return RandomWalkFM, nil
+	}
+	return 0, fmt.Errorf("noise: unknown power-law term %q (want h+2, h+1, h0, h-1, h-2 or wpm, fpm, wfm, ffm, rwfm)", key)
 }
