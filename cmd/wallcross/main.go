@@ -26,6 +26,8 @@ func commands() []*command {
 		newSimulateCmd(),
 		newDemoCmd(),
 		newOrbitCmd(),
+		newClockCmd(),
+		newStabilityCmd(),
 		newOverlayCmd(),
 		newScoreCmd(),
 		newReachCmd(),
