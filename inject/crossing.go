@@ -7,9 +7,9 @@ import (
 
 // Trajectory gives a clock's celestial-frame (GCRS-like, geocentric) position
 // in metres at t seconds since the run's start epoch. Walls use the same time
-// origin. It must be defined (finite) at every time the solver asks for,
-// which lies within a few hours of the wall's T0 for clocks within 1e8 m of
-// the geocentre.
+// origin. It must be finite near the crossing; elsewhere it may return NaN
+// (e.g. outside an ephemeris' coverage): the solver then starts from the
+// nearest finite position within 2 h of the wall's T0.
 type Trajectory func(t float64) [3]float64
 
 // Crossing is one clock's encounter with one wall: everything needed to
@@ -67,14 +67,30 @@ func (w *Wall) Cross(clock, family string, tr Trajectory) (Crossing, error) {
 		Tau: w.Thickness / vrel, Profile: w.Profile, Scale: scale, Residual: res}, nil
 }
 
+func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
+
 func dot(a, b [3]float64) float64 { return a[0]*b[0] + a[1]*b[1] + a[2]*b[2] }
 
 // solve returns the root of f(t) = N·r(t) − v(t − T0) and its residual |f|/v in s.
 func (w *Wall) solve(tr Trajectory) (float64, float64, error) {
 	f := func(t float64) float64 { return dot(w.N, tr(t)) - w.Speed*(t-w.T0) }
 	r0 := dot(w.N, tr(w.T0))
-	if math.IsNaN(r0) || math.IsInf(r0, 0) {
-		return 0, 0, fmt.Errorf("trajectory not finite at t=%g s", w.T0)
+	if !finite(r0) {
+		// The trajectory may not cover T0 (an ephemeris that starts after a
+		// wall passed the geocentre) while it covers the crossing: start
+		// from the nearest covered time instead, searched ±2 h in 30-s steps.
+		found := false
+		for j := 1; j <= 240 && !found; j++ {
+			for _, sg := range [2]float64{1, -1} {
+				if q := dot(w.N, tr(w.T0+sg*30*float64(j))); finite(q) {
+					r0, found = q, true
+					break
+				}
+			}
+		}
+		if !found {
+			return 0, 0, fmt.Errorf("trajectory not finite within 2 h of t=%g s", w.T0)
+		}
 	}
 	g := w.T0 + r0/w.Speed // straight-line first guess
 	fg := f(g)

@@ -241,3 +241,28 @@ func TestEarthSweepDuration(t *testing.T) {
 		t.Errorf("2R/v = %g s, physics.md §3.5 gives 42 s", 2*R/v)
 	}
 }
+
+// A trajectory that is NaN before the run start (ephemeris coverage) while
+// the wall passed the geocentre 30 s before it: the clock 2e7 m ahead is
+// still crossed inside the coverage, and the solver finds it.
+func TestCrossingPartialCoverage(t *testing.T) {
+	w := effWall([3]float64{1, 0, 0}, 3e5, 1e7, -30, 1e9, 1e12, ProfileGaussian)
+	tr := func(t float64) [3]float64 {
+		if t < 0 {
+			return [3]float64{math.NaN(), math.NaN(), math.NaN()}
+		}
+		return [3]float64{2e7 - 3e3*t, 1e6, 0}
+	}
+	c, err := w.Cross("G", "rb", tr)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// 2e7 − 3e3·t = 3e5·(t + 30)  ⇒  t = (2e7 − 9e6)/3.03e5
+	if want := (2e7 - 9e6) / 3.03e5; !scalar.EqualWithinAbs(c.TCross, want, 1e-9) {
+		t.Errorf("t_cross %.9f s, want %.9f s", c.TCross, want)
+	}
+	never := func(float64) [3]float64 { return [3]float64{math.NaN(), 0, 0} }
+	if _, err := w.Cross("G", "rb", never); err == nil {
+		t.Error("trajectory without coverage accepted")
+	}
+}
