@@ -13,6 +13,8 @@ import (
 	"strings"
 
 	"codeberg.org/sbinet/npyio"
+
+	"wallcross/orbits"
 )
 
 // ReadManifest reads and checks dir/manifest.json.
@@ -43,9 +45,9 @@ func ReadManifest(dir string) (*Manifest, error) {
 
 // ReadDataset reads a dataset directory written by WriteDir: the manifest,
 // the bias matrix (clocks.csv, or clocks.npy when the CSV is absent),
-// stations.csv, events.csv, crossings.csv and nuisances.csv (when listed).
-// Every file read is checked against the manifest's SHA-256. Satellite
-// positions (orbits.sp3) are not loaded; Orbits is nil.
+// stations.csv, events.csv, crossings.csv, and nuisances.csv and orbits.sp3
+// (each when listed; the SP3 is read by package orbits). Every file read is
+// checked against the manifest's SHA-256.
 func ReadDataset(dir string) (*Dataset, error) {
 	m, err := ReadManifest(dir)
 	if err != nil {
@@ -99,6 +101,15 @@ func ReadDataset(dir string) (*Dataset, error) {
 		}
 	default:
 		return nil, fmt.Errorf("sim: dataset %s has neither %s nor %s", dir, CSVFile, NPYFile)
+	}
+	if hasFile(m, SP3File) {
+		p, err := check(SP3File)
+		if err != nil {
+			return nil, err
+		}
+		if d.Orbits, err = orbits.ReadSP3File(p); err != nil {
+			return nil, fmt.Errorf("sim: %w", err)
+		}
 	}
 	for _, f := range []struct {
 		name     string

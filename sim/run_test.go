@@ -205,3 +205,33 @@ walls:
 		t.Errorf("G01 radius %g m", r)
 	}
 }
+
+// orbits.sp3 written from a run reads back (package orbits' reader) with the
+// positions to the file's 1 mm resolution (SP3 F14.6 km).
+func TestSP3ReadsBack(t *testing.T) {
+	d, err := Run(Config{Scenario: builtin(t, "check-single-wall")}, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	if _, err := WriteDir(dir, d, WriteOptions{SkipRINEX: true}); err != nil {
+		t.Fatal(err)
+	}
+	r, err := ReadDataset(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r.Orbits == nil || len(r.Orbits.Epochs) != len(d.Orbits.Epochs) || len(r.Orbits.Sats) != 24 || r.Orbits.TimeSystem != "GPS" {
+		t.Fatalf("SP3 read back: %+v", r.Orbits)
+	}
+	for e := range r.Orbits.Data {
+		for i := range r.Orbits.Data[e] {
+			a, b := r.Orbits.Data[e][i].Pos, d.Orbits.Data[e][i].Pos
+			for k := range 3 {
+				if math.Abs(a[k]-b[k]) > 0.5e-3+1e-9 {
+					t.Fatalf("epoch %d sat %d: %v, written %v", e, i, a, b)
+				}
+			}
+		}
+	}
+}
