@@ -185,7 +185,7 @@ Example:
 				}
 				ylabel := "σ(τ)"
 				if len(stats) == 1 && stats[0] == stability.StatTDEV {
-					ylabel = "σ_x(τ) [s]"
+					ylabel = "σx(τ) [s]"
 				}
 				p, err := stability.Plot(filepath.Base(args[0]), ylabel, curves, mf, label)
 				if err != nil {

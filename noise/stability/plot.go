@@ -35,8 +35,8 @@ func (e errPoints) YError(i int) (float64, float64) {
 
 // Plot draws σ(τ) curves on log-log axes with their confidence intervals as
 // error bars, and optionally a model curve (model(τ) evaluated on a log grid
-// spanning the data; nil for none). ylabel names the quantity ("σ_y(τ)", or
-// "σ_x(τ) [s]" for TDEV).
+// spanning the data; nil for none). ylabel names the quantity ("σy(τ)", or
+// "σx(τ) [s]" for TDEV).
 func Plot(title, ylabel string, curves []Curve, model func(tau float64) float64, modelLabel string) (*plot.Plot, error) {
 	p := plot.New()
 	p.Title.Text = title
@@ -107,21 +107,34 @@ func Plot(title, ylabel string, curves []Curve, model func(tau float64) float64,
 }
 
 // decadeTicks labels the decades of a log axis as 1, 10, 100, 1000 and
-// 1e4, 1e-13 (instead of the float noise of plot.LogTicks).
+// 1e4, 1e-13 (instead of the float noise of plot.LogTicks), adding 2× and
+// 5× labels on short axes.
 type decadeTicks struct{}
 
 func (decadeTicks) Ticks(min, max float64) []plot.Tick {
 	ts := plot.LogTicks{Prec: -1}.Ticks(min, max)
+	labelled := 0
+	for _, t := range ts {
+		if t.Label != "" {
+			labelled++
+		}
+	}
 	for i := range ts {
-		if ts[i].Label == "" {
+		v := ts[i].Value
+		e := math.Floor(math.Log10(v) + 1e-9)
+		mant := math.Round(v / math.Pow(10, e))
+		// label the decades, and 2 and 5 times them when the axis spans
+		// less than two decades
+		if ts[i].Label == "" && !(labelled < 3 && (mant == 2 || mant == 5)) {
 			continue
 		}
-		e := math.Round(math.Log10(ts[i].Value))
 		switch {
 		case e >= 0 && e <= 3:
-			ts[i].Label = strconv.FormatFloat(math.Pow(10, e), 'f', 0, 64)
-		default:
+			ts[i].Label = strconv.FormatFloat(mant*math.Pow(10, e), 'f', 0, 64)
+		case mant == 1:
 			ts[i].Label = "1e" + strconv.Itoa(int(e))
+		default:
+			ts[i].Label = strconv.Itoa(int(mant)) + "e" + strconv.Itoa(int(e))
 		}
 	}
 	return ts
