@@ -1,0 +1,80 @@
+package search
+
+import (
+	"bufio"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"strconv"
+)
+
+// CandidateColumns is the header of a candidate file (DESIGN.md §5: t0_s
+// and stat required; the rest optional). amplitude is the fitted bias step
+// of a clock with unit sensitivity, s; coupling is the coupling class.
+func CandidateColumns() []string {
+	return []string{"t0_s", "stat", "nx", "ny", "nz", "speed_m_s", "thickness_m", "amplitude", "coupling"}
+}
+
+func fmtG(v float64) string { return strconv.FormatFloat(v, 'g', 10, 64) }
+
+// WriteCandidates writes cands as CSV with the CandidateColumns header.
+func WriteCandidates(w io.Writer, cands []Candidate) error {
+	bw := bufio.NewWriter(w)
+	cols := CandidateColumns()
+	for i, c := range cols {
+		if i > 0 {
+			bw.WriteByte(',')
+		}
+		bw.WriteString(c)
+	}
+	bw.WriteByte('\n')
+	for _, c := range cands {
+		row := []string{fmtG(c.T0), fmtG(c.Stat), fmtG(c.N[0]), fmtG(c.N[1]), fmtG(c.N[2]),
+			fmtG(c.Speed), fmtG(c.Thickness), fmtG(c.Amplitude), c.Coupling}
+		for i, s := range row {
+			if i > 0 {
+				bw.WriteByte(',')
+			}
+			bw.WriteString(s)
+		}
+		bw.WriteByte('\n')
+	}
+	if err := bw.Flush(); err != nil {
+		return fmt.Errorf("search: could not write candidates: %w", err)
+	}
+	return nil
+}
+
+// WriteCandidatesFile writes cands to path atomically: to a temporary file
+// in the same directory, synced, then renamed over path. On error no file
+// is left at path and the temporary file is removed.
+func WriteCandidatesFile(path string, cands []Candidate) (err error) {
+	f, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".tmp*")
+	if err != nil {
+		return fmt.Errorf("search: could not create candidate file: %w", err)
+	}
+	tmp := f.Name()
+	defer func() {
+		if err != nil {
+			f.Close()
+			os.Remove(tmp)
+		}
+	}()
+	if err = WriteCandidates(f, cands); err != nil {
+		return err
+	}
+	if err = f.Sync(); err != nil {
+		return fmt.Errorf("search: could not write candidate file: %w", err)
+	}
+	if err = f.Close(); err != nil {
+		return fmt.Errorf("search: could not write candidate file: %w", err)
+	}
+	if err = os.Chmod(tmp, 0o644); err != nil {
+		return fmt.Errorf("search: could not write candidate file: %w", err)
+	}
+	if err = os.Rename(tmp, path); err != nil {
+		return fmt.Errorf("search: could not write candidate file: %w", err)
+	}
+	return nil
+}

@@ -1,0 +1,349 @@
+package search
+
+import (
+	"fmt"
+	"math"
+	"slices"
+)
+
+// madScale is 1/Φ⁻¹(3/4), the factor that turns the median absolute
+// deviation of Gaussian data into its standard deviation (checked against
+// gonum's distuv.Normal quantile in TestMADScale).
+const madScale = 1.482602218505602
+
+// PseudoFrequency returns y(k) = [b(k+1) − b(k)]/step for k = 0..len(b)−2
+// (dimensionless, for bias b in s and step in s). An interval with a
+// missing (NaN) end is NaN, so differencing restarts after every gap.
+func PseudoFrequency(b []float64, step float64) []float64 {
+	if len(b) < 2 {
+		return nil
+	}
+	y := make([]float64, len(b)-1)
+	for k := range y {
+		y[k] = (b[k+1] - b[k]) / step // NaN propagates from either end
+	}
+	return y
+}
+
+// RobustScale returns the normalised median absolute deviation
+// 1.4826·median|x − median(x)| of the non-NaN values of x, and their median;
+// both NaN when x has no value. scratch may be nil.
+func RobustScale(x []float64, scratch []float64) (scale, median float64) {
+	s := scratch[:0]
+	for _, v := range x {
+		if !math.IsNaN(v) {
+			s = append(s, v)
+		}
+	}
+	if len(s) == 0 {
+		return math.NaN(), math.NaN()
+	}
+	med := medianInPlace(s)
+	for i, v := range s {
+		s[i] = math.Abs(v - med)
+	}
+	return madScale * medianInPlace(s), med
+}
+
+// medianInPlace returns the median of s, reordering s.
+func medianInPlace(s []float64) float64 {
+	slices.Sort(s)
+	n := len(s)
+	if n%2 == 1 {
+		return s[n/2]
+	}
+	return 0.5 * (s[n/2-1] + s[n/2])
+}
+
+// ApplyInverse sets dst = C⁻¹v for C = diag(sigma2) + sigmaR2·11ᵀ with the
+// closed-form Sherman–Morrison inverse
+//
+//	C⁻¹ = D⁻¹ − γ·D⁻¹11ᵀD⁻¹, γ = σ_r²/(1 + σ_r²·Σ_j 1/σ_j²),
+//
+// in O(len(v)) operations (detection.md §1.5 item 4). Entries of v that are
+// NaN are treated as absent: the inverse is that of C restricted to the
+// present entries, and dst is 0 there. Every sigma2 must be positive and
+// sigmaR2 ≥ 0. len(dst), len(v) and len(sigma2) must be equal.
+func ApplyInverse(dst, v, sigma2 []float64, sigmaR2 float64) {
+	var wsum, wy float64
+	for j, x := range v {
+		if math.IsNaN(x) {
+			continue
+		}
+		w := 1 / sigma2[j]
+		wsum += w
+		wy += w * x
+	}
+	g := sigmaR2 / (1 + sigmaR2*wsum)
+	for j, x := range v {
+		if math.IsNaN(x) {
+			dst[j] = 0
+			continue
+		}
+		dst[j] = (x - g*wy) / sigma2[j]
+	}
+}
+
+// NoiseModel is the fitted noise of a network's pseudo-frequencies.
+type NoiseModel struct {
+	// Data lists the indices (in Network.Clocks) of the clocks used as data:
+	// every clock but the reference, with at least one valid interval.
+	Data []int
+	// Sigma[i] is the own white-frequency scale σ_j of clock Data[i]
+	// (dimensionless, per interval, after the optional AR filter).
+	Sigma []float64
+	// Total[i] is the robust scale of the clock's series, sqrt(σ_j² + σ_r²).
+	Total []float64
+	// SigmaRef is the scale σ_r of the common (reference-clock) term.
+	SigmaRef float64
+	// AR holds the whitening filter a (a[0] = 1), shared by every series:
+	// e(k) = Σ_l a[l]·y(k − l). Length 1 without whitening.
+	AR []float64
+}
+
+// maxPairs caps the number of clock pairs used to estimate σ_r².
+const maxPairs = 600
+
+// estimateCommon returns σ_r², the median over clock pairs of
+// (s_i² + s_j² − s_{i−j}²)/2, clamped at 0. series are centred.
+func estimateCommon(series [][]float64, total []float64) float64 {
+	n := len(series)
+	if n < 2 {
+		return 0
+	}
+	npairs := n * (n - 1) / 2
+	stride := 1
+	if npairs > maxPairs {
+		stride = (npairs + maxPairs - 1) / maxPairs
+	}
+	var est []float64
+	diff := make([]float64, len(series[0]))
+	scratch := make([]float64, 0, len(diff))
+	p := 0
+	for i := 0; i < n; i++ {
+		for j := i + 1; j < n; j++ {
+			p++
+			if (p-1)%stride != 0 {
+				continue
+			}
+			for k := range diff {
+				diff[k] = series[i][k] - series[j][k] // NaN if either missing
+			}
+			sd, _ := RobustScale(diff, scratch)
+			if math.IsNaN(sd) {
+				continue
+			}
+			est = append(est, 0.5*(total[i]*total[i]+total[j]*total[j]-sd*sd))
+		}
+	}
+	if len(est) == 0 {
+		return 0
+	}
+	return math.Max(0, medianInPlace(est))
+}
+
+// levinson solves the Yule–Walker equations for autocovariance r[0..p] by
+// the Levinson–Durbin recursion and returns the prediction-error filter a
+// (a[0] = 1, e(k) = Σ a[l]·x(k−l)). It stops early (shorter filter) if
+// the recursion becomes unstable.
+func levinson(r []float64, p int) []float64 {
+	a := []float64{1}
+	if p == 0 || !(r[0] > 0) {
+		return a
+	}
+	e := r[0]
+	for m := 1; m <= p; m++ {
+		acc := r[m]
+		for l := 1; l < m; l++ {
+			acc += a[l] * r[m-l]
+		}
+		k := -acc / e
+		if !(math.Abs(k) < 1) {
+			break
+		}
+		na := make([]float64, m+1)
+		na[0] = 1
+		for l := 1; l < m; l++ {
+			na[l] = a[l] + k*a[m-l]
+		}
+		na[m] = k
+		a = na
+		e *= 1 - k*k
+	}
+	return a
+}
+
+// filterAR returns e(k) = Σ_l a[l]·y(k−l), NaN where any input is missing
+// (so the filter restarts after gaps).
+func filterAR(y, a []float64) []float64 {
+	e := make([]float64, len(y))
+	p := len(a) - 1
+	for k := range y {
+		if k < p {
+			e[k] = math.NaN()
+			continue
+		}
+		s := 0.0
+		for l, c := range a {
+			s += c * y[k-l]
+		}
+		e[k] = s
+	}
+	return e
+}
+
+// prepared holds the whitened data of a network, ready for the bank scan.
+type prepared struct {
+	nInt  int         // number of intervals (epochs − 1)
+	z     [][]float64 // per data clock: Aᵀ·(C⁻¹·A·y), the numerator series
+	m     [][]float64 // per data clock: 1/σ_j² where the filtered sample is present, else 0
+	zr    []float64   // reference: −Aᵀ·(1ᵀC⁻¹A·y)
+	w     []float64   // per interval: W = Σ_j present 1/σ_j²
+	gamma []float64   // per interval: γ = σ_r²/(1 + σ_r²·W)
+	noise NoiseModel
+}
+
+// prepare turns the bias series into whitened pseudo-frequencies.
+func prepare(net *Network, cfg *Config) (*prepared, error) {
+	nInt := net.Epochs() - 1
+	var data []int
+	var ys [][]float64
+	for j := range net.Clocks {
+		if j == net.Ref {
+			continue
+		}
+		y := PseudoFrequency(net.Bias[j], net.Step)
+		ok := false
+		for _, v := range y {
+			if !math.IsNaN(v) {
+				ok = true
+				break
+			}
+		}
+		if !ok {
+			continue
+		}
+		data = append(data, j)
+		ys = append(ys, y)
+	}
+	if len(data) < 2 {
+		return nil, fmt.Errorf("search: %d clocks with data besides the reference, need at least 2", len(data))
+	}
+	scratch := make([]float64, 0, nInt)
+	// Centre, then clip at Clip robust σ.
+	clipSeries := func(ys [][]float64) ([]float64, error) {
+		total := make([]float64, len(ys))
+		for i, y := range ys {
+			s, med := RobustScale(y, scratch)
+			if !(s > 0) {
+				// A constant series (e.g. a second copy of the reference) carries no information.
+				return nil, fmt.Errorf("search: clock %q: pseudo-frequency has zero robust scale (constant bias?)", net.Clocks[data[i]].ID)
+			}
+			total[i] = s
+			for k, v := range y {
+				if math.IsNaN(v) {
+					continue
+				}
+				v -= med
+				if cfg.Clip > 0 {
+					v = math.Max(-cfg.Clip*s, math.Min(cfg.Clip*s, v))
+				}
+				y[k] = v
+			}
+		}
+		return total, nil
+	}
+	total, err := clipSeries(ys)
+	if err != nil {
+		return nil, err
+	}
+	a := []float64{1}
+	if cfg.Whiten > 0 {
+		// Pooled autocovariance of the normalised series.
+		r := make([]float64, cfg.Whiten+1)
+		for i, y := range ys {
+			inv := 1 / (total[i] * total[i])
+			for l := range r {
+				var s float64
+				var n int
+				for k := l; k < len(y); k++ {
+					if p := y[k] * y[k-l]; !math.IsNaN(p) {
+						s += p
+						n++
+					}
+				}
+				if n > 0 {
+					r[l] += inv * s / float64(n)
+				}
+			}
+		}
+		a = levinson(r, cfg.Whiten)
+		for i := range ys {
+			ys[i] = filterAR(ys[i], a)
+		}
+		if total, err = clipSeries(ys); err != nil {
+			return nil, err
+		}
+	}
+	sr2 := estimateCommon(ys, total)
+	nm := NoiseModel{Data: data, Sigma: make([]float64, len(data)), Total: total, SigmaRef: math.Sqrt(sr2), AR: a}
+	sig2 := make([]float64, len(data))
+	for i, s := range total {
+		// The own variance cannot fall below 1 % of the total (guards an
+		// over-estimated common term).
+		sig2[i] = math.Max(s*s-sr2, 0.01*s*s)
+		nm.Sigma[i] = math.Sqrt(sig2[i])
+	}
+	p := &prepared{nInt: nInt, noise: nm,
+		z: make([][]float64, len(data)), m: make([][]float64, len(data)),
+		zr: make([]float64, nInt), w: make([]float64, nInt), gamma: make([]float64, nInt)}
+	zt := make([][]float64, len(data))
+	for i := range data {
+		zt[i] = make([]float64, nInt)
+		p.m[i] = make([]float64, nInt)
+	}
+	zrt := make([]float64, nInt)
+	col := make([]float64, len(data))
+	out := make([]float64, len(data))
+	for k := range nInt {
+		for i := range data {
+			col[i] = ys[i][k]
+		}
+		ApplyInverse(out, col, sig2, sr2)
+		var wsum, ysum float64
+		for i := range data {
+			zt[i][k] = out[i]
+			if !math.IsNaN(col[i]) {
+				w := 1 / sig2[i]
+				p.m[i][k] = w
+				wsum += w
+				ysum += w * col[i]
+			}
+		}
+		p.w[k] = wsum
+		p.gamma[k] = sr2 / (1 + sr2*wsum)
+		zrt[k] = -ysum / (1 + sr2*wsum) // −1ᵀC⁻¹y
+	}
+	// Numerator series: the adjoint filter Aᵀ, z(k) = Σ_l a[l]·z̃(k + l).
+	adj := func(x []float64) []float64 {
+		if len(a) == 1 {
+			return x
+		}
+		o := make([]float64, len(x))
+		for k := range x {
+			s := 0.0
+			for l, c := range a {
+				if k+l < len(x) {
+					s += c * x[k+l]
+				}
+			}
+			o[k] = s
+		}
+		return o
+	}
+	for i := range data {
+		p.z[i] = adj(zt[i])
+	}
+	p.zr = adj(zrt)
+	return p, nil
+}

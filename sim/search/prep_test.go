@@ -1,0 +1,159 @@
+package search
+
+import (
+	"math"
+	"math/rand/v2"
+	"testing"
+
+	"gonum.org/v1/gonum/floats/scalar"
+	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/stat/distuv"
+)
+
+// denseInverseApply sets dst = C⁻¹v with C = diag(sig2) + sr2·11ᵀ formed
+// explicitly and inverted by gonum's LU-based mat.Dense.Inverse.
+func denseInverseApply(dst, v, sig2 []float64, sr2 float64) {
+	n := len(v)
+	c := mat.NewDense(n, n, nil)
+	for i := range n {
+		for j := range n {
+			c.Set(i, j, sr2)
+		}
+		c.Set(i, i, sig2[i]+sr2)
+	}
+	var inv mat.Dense
+	if err := inv.Inverse(c); err != nil {
+		panic(err)
+	}
+	var out mat.VecDense
+	out.MulVec(&inv, mat.NewVecDense(n, append([]float64(nil), v...)))
+	for i := range n {
+		dst[i] = out.AtVec(i)
+	}
+}
+
+// TestApplyInverseAgainstDense checks the Sherman–Morrison closed form
+// against gonum's general matrix inverse, with and without absent entries.
+func TestApplyInverseAgainstDense(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 1))
+	for trial := range 20 {
+		n := 2 + rng.IntN(60)
+		sig2 := make([]float64, n)
+		v := make([]float64, n)
+		for i := range n {
+			sig2[i] = math.Pow(10, -24+2*rng.Float64()) // (1e-12 … 1e-11)²
+			v[i] = 1e-12 * rng.NormFloat64()
+		}
+		sr2 := []float64{0, 1e-26, 1e-24, 1e-22}[trial%4]
+		got := make([]float64, n)
+		ApplyInverse(got, v, sig2, sr2)
+		want := make([]float64, n)
+		denseInverseApply(want, v, sig2, sr2)
+		for i := range n {
+			if !scalar.EqualWithinAbsOrRel(got[i], want[i], 1e-9*math.Abs(want[i])+1e-300, 1e-8) {
+				t.Fatalf("trial %d (n=%d, σ_r²=%g): C⁻¹v[%d] = %g, dense inverse %g", trial, n, sr2, i, got[i], want[i])
+			}
+		}
+		// Absent entries: compare with the dense inverse of the submatrix.
+		miss := rng.IntN(n)
+		v[miss] = math.NaN()
+		ApplyInverse(got, v, sig2, sr2)
+		var sv, ss []float64
+		for i := range n {
+			if i != miss {
+				sv = append(sv, v[i])
+				ss = append(ss, sig2[i])
+			}
+		}
+		sub := make([]float64, n-1)
+		denseInverseApply(sub, sv, ss, sr2)
+		if got[miss] != 0 {
+			t.Fatalf("absent entry gives %g, want 0", got[miss])
+		}
+		for i, k := 0, 0; i < n; i++ {
+			if i == miss {
+				continue
+			}
+			if !scalar.EqualWithinAbsOrRel(got[i], sub[k], 1e-300, 1e-8) {
+				t.Fatalf("trial %d with entry %d absent: C⁻¹v[%d] = %g, dense %g", trial, miss, i, got[i], sub[k])
+			}
+			k++
+		}
+	}
+}
+
+// TestMADScale checks the MAD normalisation against 1/Φ⁻¹(3/4) from gonum's
+// normal quantile, and RobustScale on a seeded normal sample.
+func TestMADScale(t *testing.T) {
+	want := 1 / distuv.UnitNormal.Quantile(0.75)
+	if !scalar.EqualWithinAbsOrRel(madScale, want, 0, 1e-14) {
+		t.Fatalf("madScale = %.16g, 1/Φ⁻¹(0.75) = %.16g", madScale, want)
+	}
+	rng := rand.New(rand.NewPCG(2, 3))
+	x := make([]float64, 20000)
+	for i := range x {
+		x[i] = 3 + 2*rng.NormFloat64()
+		if i%50 == 0 {
+			x[i] = math.NaN()
+		}
+	}
+	s, med := RobustScale(x, nil)
+	// The MAD estimator's standard error is ≈ 1.65σ/√n (asymptotic
+	// efficiency 37 %, from memory): 0.023 here; allow 4 of them.
+	if math.Abs(s-2) > 0.1 || math.Abs(med-3) > 0.05 {
+		t.Fatalf("RobustScale = %g (median %g), want ≈ 2 (3)", s, med)
+	}
+}
+
+func TestPseudoFrequencyRestartsAtGaps(t *testing.T) {
+	b := []float64{0, 30e-12, 60e-12, math.NaN(), 90e-12, 150e-12}
+	y := PseudoFrequency(b, 30)
+	want := []float64{1e-12, 1e-12, math.NaN(), math.NaN(), 2e-12}
+	for k := range want {
+		if math.IsNaN(want[k]) != math.IsNaN(y[k]) || (!math.IsNaN(want[k]) && !scalar.EqualWithinAbsOrRel(y[k], want[k], 1e-27, 1e-12)) {
+			t.Fatalf("y = %v, want %v", y, want)
+		}
+	}
+}
+
+// TestLevinsonAR1 checks the Yule–Walker solution for an AR(1)
+// autocovariance r(l) = φ^l, whose prediction-error filter is [1, −φ, 0]
+// (Box & Jenkins, AR(1) partial autocorrelation vanishes beyond lag 1; from memory).
+func TestLevinsonAR1(t *testing.T) {
+	phi := 0.6
+	a := levinson([]float64{1, phi, phi * phi, phi * phi * phi}, 3)
+	want := []float64{1, -phi, 0, 0}
+	for i := range want {
+		if !scalar.EqualWithinAbs(a[i], want[i], 1e-12) {
+			t.Fatalf("filter %v, want %v", a, want)
+		}
+	}
+}
+
+// TestCommonModeEstimate checks that σ_r and σ_j are recovered from
+// simulated "clock minus reference" white noise.
+func TestCommonModeEstimate(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 8))
+	o := defaultSynth()
+	o.epochs = 2000
+	o.sigmaRef = 8e-13
+	sn, phase := newSynth(rng, o)
+	sn.finish(rng, o, phase)
+	cfg, _ := Config{}.withDefaults()
+	p, err := prepare(sn.net, &cfg)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r := p.noise.SigmaRef / o.sigmaRef; math.Abs(r-1) > 0.15 {
+		t.Errorf("σ_r = %g, want %g", p.noise.SigmaRef, o.sigmaRef)
+	}
+	for i, j := range p.noise.Data {
+		// σ_j² = s_j² − σ_r² inherits the error of both terms: scale the
+		// 8 % tolerance by s_j²/σ_j².
+		tol := 0.08 * p.noise.Total[i] * p.noise.Total[i] / (sn.sigma[j] * sn.sigma[j])
+		if r := p.noise.Sigma[i] / sn.sigma[j]; math.Abs(r-1) > tol {
+			t.Errorf("clock %s: σ = %g, want %g", sn.net.Clocks[j].ID, p.noise.Sigma[i], sn.sigma[j])
+		}
+	}
+	t.Logf("σ_r estimated %.3g (true %.3g)", p.noise.SigmaRef, o.sigmaRef)
+}

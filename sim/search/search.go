@@ -1,0 +1,180 @@
+package search
+
+import (
+	"fmt"
+	"math"
+)
+
+// Template is one point of the bank with its fitted amplitude.
+type Template struct {
+	N         [3]float64 // unit wall velocity direction, celestial frame
+	Speed     float64    // normal speed, m/s
+	Thickness float64    // m (0: thin wall)
+	Coupling  string     // coupling class
+	// Amplitude is the least-squares bias step of a clock with K = 1, s
+	// (signed; the clock's own step is K·Amplitude).
+	Amplitude float64
+	SNR       float64 // signed matched-filter SNR uᵀC⁻¹y/sqrt(uᵀC⁻¹u)
+}
+
+// Candidate is one reported wall candidate (a cluster's loudest grid point).
+type Candidate struct {
+	T0   float64 // s since the first epoch: the wall passes the geocentre
+	Stat float64 // |SNR|, larger is more significant
+	Template
+}
+
+// Result is the outcome of a search.
+type Result struct {
+	T0Step  float64 // spacing of the t0 grid, s
+	T0First float64 // t0 of grid point 0, s since the first epoch; point m is T0First + m·T0Step
+	// Stat[m] is the largest |SNR| over the bank at grid point m.
+	Stat []float64
+	// Best[m] is the template that reached it (zero Template if none).
+	Best       []Template
+	Candidates []Candidate // clustered, in time order
+	Noise      NoiseModel
+	Directions [][3]float64
+	Config     Config  // the settings used, defaults filled in
+	Radius     float64 // network radius: largest clock distance from the geocentre, m
+	// Evaluations counts template·clock·t0 evaluations (the benchmark unit).
+	Evaluations float64
+}
+
+// newSearcher validates the inputs and prepares the scan.
+func newSearcher(net *Network, cfg Config) (*searcher, error) {
+	if err := net.Validate(); err != nil {
+		return nil, err
+	}
+	c, err := cfg.withDefaults()
+	if err != nil {
+		return nil, err
+	}
+	prep, err := prepare(net, &c)
+	if err != nil {
+		return nil, err
+	}
+	s := &searcher{cfg: c, prep: prep, step: net.Step, nEpoch: net.Epochs(), nInt: prep.nInt,
+		nData: len(prep.noise.Data), hasRef: net.Ref >= 0}
+	scan := append([]int(nil), prep.noise.Data...)
+	if s.hasRef {
+		scan = append(scan, net.Ref)
+	}
+	s.pos = make([][][3]float64, len(scan))
+	for c, j := range scan {
+		p := make([][3]float64, s.nEpoch)
+		for k := range p {
+			r := net.Pos(j, float64(k)*net.Step)
+			for a := range 3 {
+				if math.IsNaN(r[a]) || math.IsInf(r[a], 0) {
+					return nil, fmt.Errorf("search: clock %q: position (%g, %g, %g) m at epoch %d is not finite", net.Clocks[j].ID, r[0], r[1], r[2], k)
+				}
+			}
+			p[k] = r
+			s.radius = math.Max(s.radius, math.Sqrt(r[0]*r[0]+r[1]*r[1]+r[2]*r[2]))
+		}
+		s.pos[c] = p
+	}
+	s.k = make([][]float64, len(c.Couplings))
+	for cl, name := range c.Couplings {
+		s.k[cl] = make([]float64, len(scan))
+		sensitive := false
+		for i, j := range scan {
+			s.k[cl][i] = net.sensitivity(j, name)
+			if math.IsNaN(s.k[cl][i]) || math.IsInf(s.k[cl][i], 0) {
+				return nil, fmt.Errorf("search: clock %q: sensitivity %g for coupling %q is not finite", net.Clocks[j].ID, s.k[cl][i], name)
+			}
+			sensitive = sensitive || (i < s.nData && s.k[cl][i] != 0)
+		}
+		if !sensitive {
+			return nil, fmt.Errorf("search: no data clock has a sensitivity coefficient for coupling %q", name)
+		}
+	}
+	vmin := math.Inf(1)
+	for _, v := range c.Speeds {
+		vmin = math.Min(vmin, v)
+	}
+	nd := c.Directions
+	if nd == 0 {
+		nd = DirectionCount(vmin, net.Step, s.radius, c.MaxDirections)
+	}
+	s.dirs = FibonacciSphere(nd)
+	if c.ClusterWindow == 0 {
+		c.ClusterWindow = 2 * s.radius / vmin
+		s.cfg.ClusterWindow = c.ClusterWindow
+	}
+	ext := 0
+	s.kern = make([][]kernelTable, len(c.Speeds))
+	for vi, v := range c.Speeds {
+		s.kern[vi] = make([]kernelTable, len(c.Thicknesses))
+		for th, d := range c.Thicknesses {
+			kt := newKernel(c.Profile, d, v, net.Step, prep.noise.AR)
+			s.kern[vi][th] = kt
+			ext = max(ext, -kt.lo, kt.lo+kt.n)
+		}
+	}
+	s.half = int(math.Ceil(s.radius/(vmin*net.Step))) + 3 + ext
+	s.dt0 = net.Step / float64(c.T0Substeps)
+	s.nT0 = (s.nEpoch - 1) * c.T0Substeps
+	if lo, hi := c.T0Window[0], c.T0Window[1]; hi > lo {
+		a := max(0, int(math.Ceil(lo/s.dt0)))
+		b := min(s.nT0, int(math.Ceil(hi/s.dt0)))
+		if b <= a {
+			return nil, fmt.Errorf("search: t0 window [%g, %g) s lies outside the data span [0, %g) s", lo, hi, float64(s.nT0)*s.dt0)
+		}
+		s.m0, s.nT0 = a, b-a
+	}
+	return s, nil
+}
+
+// Search runs the matched-filter bank over a network and returns the
+// per-t0 statistic and the clustered candidates above cfg.Threshold.
+func Search(net *Network, cfg Config) (*Result, error) {
+	s, err := newSearcher(net, cfg)
+	if err != nil {
+		return nil, err
+	}
+	w := s.run()
+	res := &Result{T0Step: s.dt0, T0First: s.t0(0), Stat: w.best, Best: make([]Template, s.nT0), Noise: s.prep.noise,
+		Directions: s.dirs, Config: s.cfg, Radius: s.radius,
+		Evaluations: float64(len(s.dirs)) * float64(len(s.cfg.Speeds)*len(s.cfg.Thicknesses)*len(s.cfg.Couplings)) * float64(s.nScan()) * float64(s.nT0)}
+	for m, id := range w.bestID {
+		if id < 0 {
+			res.Stat[m] = 0
+			continue
+		}
+		res.Best[m] = s.template(id, w.bestNum[m], w.bestDen[m])
+	}
+	res.Candidates = Cluster(res.Stat, res.Best, res.T0First, s.dt0, s.cfg.Threshold, s.cfg.ClusterWindow)
+	return res, nil
+}
+
+// template returns the parameters of template id with its fit.
+func (s *searcher) template(id int, num, den float64) Template {
+	d, v, th, cl := s.unpackID(id)
+	return Template{N: s.dirs[d], Speed: s.cfg.Speeds[v], Thickness: s.cfg.Thicknesses[th],
+		Coupling: s.cfg.Couplings[cl], Amplitude: num / den, SNR: num / math.Sqrt(den)}
+}
+
+// Cluster groups the grid points m (t0 = first + m·step) with stat[m] ≥ threshold
+// into clusters, a new cluster starting when the gap to the previous
+// above-threshold point exceeds window (s), and returns each cluster's
+// loudest point (the earliest on ties), in time order.
+func Cluster(stat []float64, best []Template, first, step, threshold, window float64) []Candidate {
+	var out []Candidate
+	last := math.Inf(-1)
+	for m, x := range stat {
+		if !(x >= threshold) {
+			continue
+		}
+		t := first + float64(m)*step
+		c := Candidate{T0: t, Stat: x, Template: best[m]}
+		if len(out) == 0 || t-last > window {
+			out = append(out, c)
+		} else if x > out[len(out)-1].Stat {
+			out[len(out)-1] = c
+		}
+		last = t
+	}
+	return out
+}
