@@ -79,8 +79,9 @@
 // μ, X_q); hyperfine K_α = 2 + K_rel, K_me = 1, K_mp = −1) and A,
 // "absolute" (K_α += 2, K_me += 1, for clocks hit at different times,
 // [KB19]). Values: H 2.00/κ_q −0.100, Rb-87 2.34/−0.019, Cs-133 2.83/+0.002
-// (convention R; [FT06, Dinh09], from memory). Quartz is treated as
-// insensitive. The truth catalogue reports Λ_eff and the peak δν/ν of the
+// (convention R; [FT06, Dinh09], from memory). Quartz has no tabulated
+// coefficients and is insensitive under CouplingPerConstant; CouplingEff
+// applies Λ_eff to every clock, quartz included, and ignores the convention. The truth catalogue reports Λ_eff and the peak δν/ν of the
 // reporting clock (Γ_eff itself, or Coupling.ReportFamily).
 //
 // # Approximation within a crossing
@@ -132,4 +133,7 @@
 // crossings.csv's step_s is Crossing.Step (NaN for the linear kink, whose
 // bias ramps instead of stepping); events.csv's lambda_eff_gev and peak_dnu
 // are those of the reporting clock.
+//
+// All types are plain values and all functions are free of shared state, so
+// walls and crossings may be rendered from many goroutines at once.
 package inject
