@@ -81,7 +81,8 @@
 // [KB19]). Values: H 2.00/κ_q −0.100, Rb-87 2.34/−0.019, Cs-133 2.83/+0.002
 // (convention R; [FT06, Dinh09], from memory). Quartz has no tabulated
 // coefficients and is insensitive under CouplingPerConstant; CouplingEff
-// applies Λ_eff to every clock, quartz included, and ignores the convention. The truth catalogue reports Λ_eff and the peak δν/ν of the
+// applies Λ_eff to every clock, quartz included, and ignores the
+// convention. The truth catalogue reports Λ_eff and the peak δν/ν of the
 // reporting clock (Γ_eff itself, or Coupling.ReportFamily).
 //
 // # Approximation within a crossing
