@@ -69,6 +69,8 @@ func TestWorkedMagnitudes(t *testing.T) {
 		{"reach for 100 ps GeV (§7.5)", LambdaEffForStep(ProfileGaussian, 100e-12, rho, v, T, d, v), 6.6e10, 0.05 / 6.6},
 		// §7.6: ρ_in = A²/(ħc·d²) ≈ 3.8e5 GeV/cm³ (ρ_in/ρ_DM = vT/d, §1.2).
 		{"ρ_in GeV/cm³ (§7.6)", a2 / (HbarC * d * d) / GeVPerCm3, 3.8e5, 0.05 / 3.8},
+		// §1.2: ρ_in/ρ_DM = vT/d ≈ 9.5e5 for d = 1e4 km, T = 1 yr.
+		{"ρ_in/ρ_DM (§1.2)", a2 / (HbarC * d * d) / rho, 9.5e5, 0.05 / 9.5},
 		{"step via StepFromDensity s (§3.3)", StepFromDensity(ProfileGaussian, gamma, rho, v, T, d, v), 4.4e-15, 0.05 / 4.4},
 	} {
 		if !scalar.EqualWithinRel(tc.got, tc.want, tc.rel) {
