@@ -79,7 +79,19 @@ func TestBroadcastAgainstPrecise(t *testing.T) {
 		{"set A GPS vs GRGS", "set_A_2021-118_gps/brdc1180.21n", "set_A_2021-118_gps/grg21553.sp3", 'G', SelectOptions{}, 2.0},
 		{"set C GPS", "set_C_2020-177_multi/MOJN00DNK_R_20201770000_01D_MN.rnx.gz", "set_C_2020-177_multi/GRG0MGXFIN_20201770000_01D_15M_ORB.SP3.gz", 'G', SelectOptions{}, 2.0},
 		{"set C Galileo I/NAV healthy", "set_C_2020-177_multi/MOJN00DNK_R_20201770000_01D_MN.rnx.gz", "set_C_2020-177_multi/GRG0MGXFIN_20201770000_01D_15M_ORB.SP3.gz", 'E', SelectOptions{}, 1.2},
+		// Unhealthy E14/E18 (health 390, eccentric orbits) included: the
+		// independent check found 1.26 m with max 18.6 m (gnss.md §3).
+		{"set C Galileo I/NAV incl. unhealthy", "set_C_2020-177_multi/MOJN00DNK_R_20201770000_01D_MN.rnx.gz", "set_C_2020-177_multi/GRG0MGXFIN_20201770000_01D_15M_ORB.SP3.gz", 'E', SelectOptions{KeepUnhealthy: true}, 2.0},
+		{"set C Galileo F/NAV healthy", "set_C_2020-177_multi/MOJN00DNK_R_20201770000_01D_MN.rnx.gz", "set_C_2020-177_multi/GRG0MGXFIN_20201770000_01D_15M_ORB.SP3.gz", 'E', SelectOptions{GalileoMessage: "FNAV"}, 1.2},
 		{"set C GLONASS", "set_C_2020-177_multi/MOJN00DNK_R_20201770000_01D_MN.rnx.gz", "set_C_2020-177_multi/GRG0MGXFIN_20201770000_01D_15M_ORB.SP3.gz", 'R', SelectOptions{}, 4.0},
+		// Set B: 2 satellites per system, 3 epochs; the independent check found
+		// G 1.15–1.17 m, E 0.81–0.84 m, R 3.12 m (gnss.md §3).
+		{"set B 3.04 GPS", "set_B_2023-073_multi/BRDM00DLR_S_20230730000_01D_MN.rnx", "set_B_2023-073_multi/COD0OPSRAP_20230730000_01D_05M_ORB.SP3", 'G', SelectOptions{}, 2.0},
+		{"set B 3.04 Galileo", "set_B_2023-073_multi/BRDM00DLR_S_20230730000_01D_MN.rnx", "set_B_2023-073_multi/COD0OPSRAP_20230730000_01D_05M_ORB.SP3", 'E', SelectOptions{}, 1.2},
+		{"set B 3.04 GLONASS", "set_B_2023-073_multi/BRDM00DLR_S_20230730000_01D_MN.rnx", "set_B_2023-073_multi/COD0OPSRAP_20230730000_01D_05M_ORB.SP3", 'R', SelectOptions{}, 4.0},
+		{"set B 3.05 GPS", "set_B_2023-073_multi/BRDC00WRD_S_20230730000_01D_MN.rnx", "set_B_2023-073_multi/COD0OPSRAP_20230730000_01D_05M_ORB.SP3", 'G', SelectOptions{}, 2.0},
+		{"set B 3.05 Galileo", "set_B_2023-073_multi/BRDC00WRD_S_20230730000_01D_MN.rnx", "set_B_2023-073_multi/COD0OPSRAP_20230730000_01D_05M_ORB.SP3", 'E', SelectOptions{}, 1.2},
+		{"set B 3.05 GLONASS", "set_B_2023-073_multi/BRDC00WRD_S_20230730000_01D_MN.rnx", "set_B_2023-073_multi/COD0OPSRAP_20230730000_01D_05M_ORB.SP3", 'R', SelectOptions{}, 4.0},
 	} {
 		n := readNavT(t, c.nav)
 		p := readSP3T(t, c.sp3)
@@ -93,13 +105,17 @@ func TestBroadcastAgainstPrecise(t *testing.T) {
 		s := res.Systems[0]
 		t.Logf("%s: %d sat-epochs (%d without ephemeris), 3D %.3f m, R/A/C %.3f/%.3f/%.3f m, mean R %.3f m, max %.2f m (%s %v), clock %.2f ns (%d)",
 			c.name, s.N, res.NoEphemeris, s.RMS3D, s.RMSR, s.RMSA, s.RMSC, s.MeanR, s.Max3D, s.MaxSat, s.MaxAt, s.ClockRMS*1e9, s.ClockN)
-		if s.N < 500 {
+		minN := 500
+		if c.name[:5] == "set B" {
+			minN = 4 // 3 SP3 epochs × 2 satellites of each system
+		}
+		if s.N < minN {
 			t.Errorf("%s: only %d satellite-epochs compared", c.name, s.N)
 		}
 		if s.RMS3D > c.maxRMS {
 			t.Errorf("%s: 3D RMS %.3f m > %.1f m", c.name, s.RMS3D, c.maxRMS)
 		}
-		if s.Max3D > 20 {
+		if s.Max3D > 20 && !c.opts.KeepUnhealthy { // "no single point above 20 m" applies to the healthy selection
 			t.Errorf("%s: max %.2f m (%s at %v) > 20 m", c.name, s.Max3D, s.MaxSat, s.MaxAt)
 		}
 	}
@@ -183,5 +199,54 @@ func TestPointVectors(t *testing.T) {
 		if rv := relativisticFromState(p, v); math.Abs(rv-e.Relativistic(c.t)) > 0.1e-9 {
 			t.Errorf("%s: −2r·v/c² = %.4f ns vs F·e·√A·sinE %.4f ns", c.sat, rv*1e9, e.Relativistic(c.t)*1e9)
 		}
+	}
+}
+
+func TestBeiDouGeometry(t *testing.T) {
+	// No BeiDou SP3 overlaps a BeiDou nav file here, so check physics the
+	// records must obey (orbit radii are common practice: GEO/IGSO
+	// 42 164 km, BDS MEO ≈ 27 906 km): a GEO (BDS-SIS-ICD §5.2.4.12 rotation)
+	// stays near the equator (|lat| < 3°; a wrong sign of the 5° tilt gives
+	// ~10°) and near a fixed Earth-fixed point: its daily figure-eight of
+	// amplitude r·i (≈ 740 km per degree of inclination) moves it by at most
+	// ~200 km per hour for i ≈ 1.5°, while a missing Earth-rotation term would
+	// move it by Ω̇e·3600 s·r ≈ 11 000 km.
+	n := readNavT(t, "set_C_2020-177_multi/MOJN00DNK_R_20201770000_01D_MN.rnx.gz")
+	geo, meo := 0, 0
+	for _, sat := range n.Sats() {
+		if sat.System() != 'C' {
+			continue
+		}
+		k := n.RecordsOf(sat)[0].(*Kepler)
+		p0, _, err := k.PosVel(k.Toe)
+		if err != nil {
+			t.Fatal(err)
+		}
+		r := norm(p0)
+		switch {
+		case k.GEO:
+			geo++
+			if math.Abs(r-42164e3) > 100e3 {
+				t.Errorf("%s GEO radius %.0f km", sat, r/1e3)
+			}
+			lat, _, _ := Geodetic(p0)
+			if math.Abs(lat) > 3*math.Pi/180 {
+				t.Errorf("%s GEO latitude %.2f°", sat, lat*180/math.Pi)
+			}
+			for _, dt := range []float64{-3600, 3600} {
+				p1, _, _ := k.PosVel(k.Toe.Add(dt))
+				if d := norm([3]float64{p1[0] - p0[0], p1[1] - p0[1], p1[2] - p0[2]}); d > 400e3 {
+					t.Errorf("%s GEO moved %.1f km in %g s", sat, d/1e3, dt)
+				}
+			}
+		case r < 30000e3:
+			meo++
+			if math.Abs(r-27906e3) > 300e3 {
+				t.Errorf("%s MEO radius %.0f km", sat, r/1e3)
+			}
+		}
+	}
+	if geo == 0 || meo == 0 {
+		t.Errorf("found %d GEO and %d MEO BeiDou satellites", geo, meo)
 	}
 }
