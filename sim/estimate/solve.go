@@ -552,3 +552,41 @@ func (g *graph) component(start int, seen []bool) {
 		}
 	}
 }
+
+// Rereference returns a copy of the solution referred to the weighted
+// ensemble Σ w_k·b_k of the clocks ids (weights dimensionless, summing to
+// 1): b′_j = b_j − Σ w_k·b_k at every epoch. An epoch where any ensemble
+// member is missing becomes a gap for every clock.
+func (s *Solution) Rereference(ids []string, weights []float64) (*Solution, error) {
+	if len(ids) == 0 || len(ids) != len(weights) {
+		return nil, fmt.Errorf("estimate: ensemble of %d clocks with %d weights", len(ids), len(weights))
+	}
+	cols := make([]int, len(ids))
+	sum := 0.0
+	for i, id := range ids {
+		if cols[i] = s.Index(id); cols[i] < 0 {
+			return nil, fmt.Errorf("estimate: ensemble clock %q is not in the solution", id)
+		}
+		if math.IsNaN(weights[i]) || math.IsInf(weights[i], 0) {
+			return nil, fmt.Errorf("estimate: ensemble weight %g of %q not finite", weights[i], id)
+		}
+		sum += weights[i]
+	}
+	if math.Abs(sum-1) > 1e-9 {
+		return nil, fmt.Errorf("estimate: ensemble weights sum to %g, want 1", sum)
+	}
+	out := *s
+	out.Reference = strings.Join(ids, "+")
+	nc := len(s.Clocks)
+	out.Bias = make([]float64, len(s.Bias))
+	for k := range s.Epochs {
+		e := 0.0
+		for i, j := range cols {
+			e += weights[i] * s.At(k, j)
+		}
+		for j := range nc {
+			out.Bias[k*nc+j] = s.At(k, j) - e // NaN propagates
+		}
+	}
+	return &out, nil
+}

@@ -197,3 +197,49 @@ func TestScreening(t *testing.T) {
 		t.Errorf("%d code rejections for %d simulated outliers", good.CodeRejected, outliers)
 	}
 }
+
+// TestRereference: the rank defect is a common shift, so a solution referred
+// to one clock turns into the solution referred to another (or to an
+// ensemble) by subtracting that clock's (the ensemble's) estimate.
+func TestRereference(t *testing.T) {
+	net := testNetwork(16, 8)
+	rng := rand.New(rand.NewPCG(8, 8))
+	const epochs, interval = 40, 30.0
+	truth := testTruth(net, epochs, interval, rng)
+	obs, err := Simulate(net, truth, ObsConfig{Interval: interval, Epochs: epochs, CodeNoise: 0.3, PhaseNoise: 0.002}, rng)
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, err := Solve(obs, SolveConfig{Reference: "STAA", CodeSigma: 0.3, PhaseSigma: 0.002})
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := Solve(obs, SolveConfig{Reference: "STAD", CodeSigma: 0.3, PhaseSigma: 0.002})
+	if err != nil {
+		t.Fatal(err)
+	}
+	ab, err := a.Rereference([]string{"STAD"}, []float64{1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for k := range epochs {
+		for j := range a.Clocks {
+			if d := math.Abs(ab.At(k, j) - b.At(k, j)); d > 1e-15 {
+				t.Fatalf("epoch %d clock %s: re-referenced %g s, solved with STAD %g s", k, a.Clocks[j], ab.At(k, j), b.At(k, j))
+			}
+		}
+	}
+	ens, err := a.Rereference([]string{"STAA", "STAB", "G01"}, []float64{0.5, 0.25, 0.25})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for k := range epochs {
+		e := 0.5*ens.At(k, ens.Index("STAA")) + 0.25*ens.At(k, ens.Index("STAB")) + 0.25*ens.At(k, ens.Index("G01"))
+		if math.Abs(e) > 1e-18 {
+			t.Fatalf("epoch %d: ensemble of the re-referenced solution is %g s, want 0", k, e)
+		}
+	}
+	if _, err := a.Rereference([]string{"STAA"}, []float64{0.9}); err == nil {
+		t.Error("weights not summing to 1 accepted")
+	}
+}
