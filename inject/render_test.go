@@ -171,3 +171,28 @@ func TestMeanFrequencyTail(t *testing.T) {
 		t.Errorf("kink tail mean %g, want %g", got, wantK)
 	}
 }
+
+// Very short intervals (τ0 ≪ τ) keep full relative precision: the mean over
+// [u, u+h] tends to s(mid) with the O(h²) curvature term s″·h²/24.
+func TestMeanFrequencyShortInterval(t *testing.T) {
+	for _, p := range []Profile{ProfileGaussian, ProfileKink, ProfileKinkLinear} {
+		c := Crossing{Clock: "X", TCross: 0, Tau: 1, Profile: p, Scale: 1}
+		for _, u := range []float64{-1.3, -0.2, 0, 0.45, 2.1} {
+			for _, h := range []float64{1e-3, 1e-6, 1e-9} {
+				mid := u + h/2
+				// second derivative by central differences at step 1e-3
+				d2 := (p.Shape(mid+1e-3) - 2*p.Shape(mid) + p.Shape(mid-1e-3)) / 1e-6
+				want := p.Shape(mid) + d2*h*h/24
+				if got := c.MeanFrequency(u, u+h); !scalar.EqualWithinAbsOrRel(got, want, 1e-15, 1e-12) {
+					t.Errorf("%v u=%g h=%g: mean %.17g, want %.17g", p, u, h, got, want)
+				}
+			}
+		}
+		// Continuity across the switch between the two methods at h = 1e-2.
+		a := c.MeanFrequency(0.3, 0.3+0.0099999)
+		b := c.MeanFrequency(0.3, 0.3+0.0100001)
+		if math.Abs(a-b) > 1e-6*math.Abs(a)+1e-15 {
+			t.Errorf("%v: jump across the method switch %g vs %g", p, a, b)
+		}
+	}
+}
