@@ -173,8 +173,8 @@ func (k *Kepler) ensure() *Kepler {
 // |ΔE| < 1e-15 rad in 2–4 steps for e ≤ 0.2 (TestSolveKepler checks the
 // residual for e up to 0.85).
 func solveKepler(m, e float64) (ea, se, ce float64) {
-	const twoPi = 2 * math.Pi
-	m -= twoPi * math.Floor(m/twoPi+0.5)
+	const twoPi, rTwoPi = 2 * math.Pi, 1 / (2 * math.Pi)
+	m -= twoPi * math.Floor(m*rTwoPi+0.5)
 	sm, cm := math.Sincos(m)
 	d := e * sm / (1 - e*cm)
 	ea = m + d
@@ -192,8 +192,9 @@ func solveKepler(m, e float64) (ea, se, ce float64) {
 			se, ce = math.Sincos(ea)
 			continue
 		case ad < 1e-4: // sin d = d − d³/6, cos d = 1 − d²/2 to < 1e-17
+			const r6 = 1.0 / 6
 			d2 := d * d
-			sd, cd := d*(1-d2/6), 1-d2/2
+			sd, cd := d*(1-d2*r6), 1-0.5*d2
 			se, ce = se*cd+ce*sd, ce*cd-se*sd
 		default:
 			sd, cd := sinCosSmall(d)
@@ -211,9 +212,11 @@ func solveKepler(m, e float64) (ea, se, ce float64) {
 // sinCosSmall returns sin d and cos d for |d| ≤ 0.05 from their Taylor
 // series to d⁸ (truncation error < d⁹/9! ≈ 5e-18).
 func sinCosSmall(d float64) (s, c float64) {
+	// Reciprocals as constants: Go does not turn x/6 into a multiplication.
+	const r6, r20, r42, r12, r30, r56 = 1.0 / 6, 1.0 / 20, 1.0 / 42, 1.0 / 12, 1.0 / 30, 1.0 / 56
 	d2 := d * d
-	s = d * (1 - d2/6*(1-d2/20*(1-d2/42)))
-	c = 1 - d2/2*(1-d2/12*(1-d2/30*(1-d2/56)))
+	s = d * (1 - d2*r6*(1-d2*r20*(1-d2*r42)))
+	c = 1 - 0.5*d2*(1-d2*r12*(1-d2*r30*(1-d2*r56)))
 	return s, c
 }
 
