@@ -150,4 +150,3 @@ func ExampleWalker() {
 	fmt.Printf("%d satellites, %s radius %.1f km a year later\n", len(sats), sats[0].ID, norm(p)/1e3)
 	// Output: 24 satellites, E01 radius 29599.8 km a year later
 }
-
