@@ -85,10 +85,17 @@ func openTable(path string, required ...string) (*table, error) {
 }
 
 func (tr *Truth) readEvents(path string) error {
-	t, err := openTable(path, "event", "t0_s", "nx", "ny", "nz", "speed_m_s", "thickness_m", "lambda_eff_gev")
+	t, err := openTable(path, eventColumns...)
 	if err != nil {
 		return err
 	}
+	return tr.eventsFrom(t)
+}
+
+var eventColumns = []string{"event", "t0_s", "nx", "ny", "nz", "speed_m_s", "thickness_m", "lambda_eff_gev"}
+
+func (tr *Truth) eventsFrom(t *table) error {
+	var err error
 	seen := map[string]bool{}
 	for i := range t.rows {
 		e := Event{ID: t.str(i, "event"), Profile: t.str(i, "profile"), MaxStep: math.NaN()}
@@ -135,13 +142,19 @@ func (tr *Truth) readEvents(path string) error {
 }
 
 func (tr *Truth) readCrossings(path string) error {
-	t, err := openTable(path, "event", "clock", "t_cross_s", "step_s")
+	t, err := openTable(path, crossingColumns...)
 	if errors.Is(err, fs.ErrNotExist) {
 		return nil
 	}
 	if err != nil {
 		return err
 	}
+	return tr.crossingsFrom(t)
+}
+
+var crossingColumns = []string{"event", "clock", "t_cross_s", "step_s"}
+
+func (tr *Truth) crossingsFrom(t *table) error {
 	idx := make(map[string]int, len(tr.Events))
 	for i, e := range tr.Events {
 		idx[e.ID] = i
@@ -177,8 +190,11 @@ func (tr *Truth) readClocks(path string) error {
 		return fmt.Errorf("score: could not open clocks.csv: %w", err)
 	}
 	defer f.Close()
-	name := filepath.Base(path)
-	cr := csv.NewReader(bufio.NewReaderSize(f, 1<<16))
+	return tr.clocksFrom(bufio.NewReaderSize(f, 1<<16), filepath.Base(path))
+}
+
+func (tr *Truth) clocksFrom(r io.Reader, name string) error {
+	cr := csv.NewReader(r)
 	cr.Comment = '#'
 	cr.ReuseRecord = true
 	hdr, err := cr.Read()

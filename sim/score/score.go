@@ -1,8 +1,10 @@
 package score
 
 import (
+	"cmp"
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 )
 
@@ -148,15 +150,18 @@ func Score(tr *Truth, cands []Candidate, opt Options) (*Result, error) {
 	for i := range order {
 		order[i] = i
 	}
-	sort.SliceStable(order, func(a, b int) bool {
-		ca, cb := cands[order[a]], cands[order[b]]
-		if ca.Stat != cb.Stat {
-			return ca.Stat > cb.Stat
+	slices.SortFunc(order, func(a, b int) int {
+		ca, cb := &cands[a], &cands[b]
+		if c := cmp.Compare(cb.Stat, ca.Stat); c != 0 {
+			return c
 		}
-		if ca.T0 != cb.T0 {
-			return ca.T0 < cb.T0
+		if c := cmp.Compare(ca.T0, cb.T0); c != 0 {
+			return c
 		}
-		return ca.Line < cb.Line
+		if c := cmp.Compare(ca.Line, cb.Line); c != 0 {
+			return c
+		}
+		return cmp.Compare(a, b)
 	})
 	evCand := make([]int, nev) // event → candidate index, −1 none
 	for i := range evCand {
@@ -164,7 +169,7 @@ func Score(tr *Truth, cands []Candidate, opt Options) (*Result, error) {
 	}
 	candEv := make([]int, len(cands))
 	for _, ci := range order {
-		c := cands[ci]
+		c := &cands[ci]
 		candEv[ci] = -1
 		best, bestDt := -1, math.Inf(1)
 		lo := sort.SearchFloat64s(t0s, c.T0-half)

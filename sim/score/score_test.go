@@ -3,6 +3,7 @@ package score
 import (
 	"bytes"
 	"encoding/json"
+	"fmt"
 	"math"
 	"os"
 	"path/filepath"
@@ -238,4 +239,16 @@ func TestWriteFiles(t *testing.T) {
 			t.Errorf("summary lacks %q:\n%s", want, out.String())
 		}
 	}
+}
+
+func ExampleScore() {
+	tr, _ := ReadTruth("testdata/ds1")
+	cands, _ := ReadCandidatesFile("testdata/candidates1.csv")
+	r, _ := Score(tr, cands, Options{})
+	fmt.Printf("window %.1f s: %d found, %d missed, %d in gaps, %.0f false alarms/day\n",
+		r.Window, r.Found, r.Missed, r.InGap, r.FalsePerDay)
+	fmt.Printf("efficiency %.3f, Clopper–Pearson [%.3f, %.3f]\n", r.Efficiency, r.CP.Low, r.CP.High)
+	// Output:
+	// window 265.6 s: 6 found, 1 missed, 1 in gaps, 3 false alarms/day
+	// efficiency 0.857, Clopper–Pearson [0.421, 0.996]
 }
