@@ -250,3 +250,40 @@ func TestBeiDouGeometry(t *testing.T) {
 		t.Errorf("found %d GEO and %d MEO BeiDou satellites", geo, meo)
 	}
 }
+
+func TestRinex2Glonass(t *testing.T) {
+	// testdata/rinex2_glonass.g holds two set B GLONASS records rewritten in
+	// the RINEX 2.11 layout by testdata/make_rinex2_glonass.py; the v2 and
+	// v3.04 readers must give the same orbit (to the 12-digit D19.12
+	// rounding, < 1 mm).
+	v2, err := ReadNav("testdata/rinex2_glonass.g")
+	if err != nil {
+		t.Fatal(err)
+	}
+	v3 := readNavT(t, "set_B_2023-073_multi/BRDM00DLR_S_20230730000_01D_MN.rnx")
+	if len(v2.Records) != 2 || v2.Version != 2.11 {
+		t.Fatalf("v2: %d records, version %g", len(v2.Records), v2.Version)
+	}
+	tm := FromUTC(2023, 3, 14, 0, 25, 0)
+	for _, sat := range []SatID{"R01", "R02"} {
+		a, err := v2.Select(sat, tm, true)
+		if err != nil {
+			t.Fatal(err)
+		}
+		b, err := v3.Select(sat, tm, true)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if a.Ref() != b.Ref() {
+			t.Errorf("%s: tb %v vs %v", sat, a.Ref(), b.Ref())
+		}
+		pa, _, _ := a.PosVel(tm)
+		pb, _, _ := b.PosVel(tm)
+		if d := norm([3]float64{pa[0] - pb[0], pa[1] - pb[1], pa[2] - pb[2]}); d > 1e-3 {
+			t.Errorf("%s: v2 and v3 positions differ by %.6f m", sat, d)
+		}
+		if math.Abs(a.ClockBias(tm)-b.ClockBias(tm)) > 1e-15 {
+			t.Errorf("%s: clocks %g vs %g", sat, a.ClockBias(tm), b.ClockBias(tm))
+		}
+	}
+}

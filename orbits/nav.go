@@ -349,6 +349,11 @@ func (n *Nav) readRecord3(r *navReader, l navLine, msg string) (Ephemeris, error
 		want = 3
 	}
 	orbit := r.gather(4, want)
+	// GLONASS line 4 (status flags, added in 3.05) is also accepted when a
+	// writer omits it, and tolerated in older versions.
+	if sys == 'R' && (len(orbit) == 3 || len(orbit) == 4) {
+		want = len(orbit)
+	}
 	if len(orbit) != want {
 		return nil, r.errorf(l.num, "%s record has %d broadcast orbit lines, want %d (RINEX %.2f)", sat, len(orbit), want, n.Version)
 	}
