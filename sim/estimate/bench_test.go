@@ -1,6 +1,7 @@
 package estimate
 
 import (
+	"math"
 	"math/rand/v2"
 	"testing"
 )
@@ -27,6 +28,18 @@ func BenchmarkSolveDay(b *testing.B) {
 			b.Fatal(err)
 		}
 	}
+	// accuracy against the truth (outside the timed loop)
+	s2, n := 0.0, 0
+	for k := range epochs {
+		for j, id := range sol.Clocks {
+			if v := sol.At(k, j); !math.IsNaN(v) {
+				d := v - relTruth(truth, k, id, "STAA")
+				s2 += d * d
+				n++
+			}
+		}
+	}
+	b.ReportMetric(1e12*math.Sqrt(s2/float64(n)), "rms-ps")
 	b.ReportMetric(float64(obs.Len()), "obs")
 	b.ReportMetric(float64(sol.PhaseRejected), "phase-rejections")
 	b.ReportMetric(b.Elapsed().Seconds()/float64(b.N), "s/day")
