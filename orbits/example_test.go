@@ -37,3 +37,21 @@ func ExampleFromBDT() {
 	fmt.Println(FromBDT(0, 0))
 	// Output: 2006-01-01T00:00:14
 }
+
+func ExampleReadNav() {
+	nav, err := ReadNav("testdata/rinex2_glonass.g")
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	t := FromUTC(2023, 3, 14, 0, 20, 0)
+	eph, err := nav.Select("R01", t, false)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	p, _, _ := eph.PosVel(t)
+	fmt.Printf("RINEX %.2f, %d records; R01 %s at %v GPST: |r| = %.1f km, clock %.3f µs\n",
+		nav.Version, len(nav.Records), eph.Message(), t, norm(p)/1e3, eph.ClockBias(t)*1e6)
+	// Output: RINEX 2.11, 2 records; R01 FDMA at 2023-03-14T00:20:18 GPST: |r| = 25516.5 km, clock 24.706 µs
+}

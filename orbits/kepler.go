@@ -86,7 +86,7 @@ func (k *Kepler) Prepare() error {
 	default:
 		return fmt.Errorf("orbits: satellite %q: no Keplerian constants for system %q", k.ID, string(k.ID.System()))
 	}
-	if !(k.SqrtA > 1000) || math.IsInf(k.SqrtA, 0) {
+	if !(k.SqrtA > 1000 && k.SqrtA < 2e4) { // a between 1e6 m and 4e8 m
 		return fmt.Errorf("orbits: satellite %q at %v: sqrt(A) = %g m^0.5 is not a valid orbit", k.ID, k.Toe, k.SqrtA)
 	}
 	if !(k.Ecc >= 0 && k.Ecc < 0.9) {

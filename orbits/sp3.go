@@ -461,6 +461,9 @@ func WriteSP3(w io.Writer, s *SP3) error {
 			return fmt.Errorf("orbits: sp3: satellite id %q is not 3 characters", id)
 		}
 	}
+	if !(s.Interval >= 0 && s.Interval < 1e5) {
+		return fmt.Errorf("orbits: sp3: epoch interval %g s does not fit F14.8", s.Interval)
+	}
 	mode := s.Mode
 	if mode != 'V' {
 		mode = 'P'
