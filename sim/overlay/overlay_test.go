@@ -10,6 +10,7 @@ import (
 	"wallcross/inject"
 	"wallcross/internal/extdata"
 	"wallcross/orbits"
+	"wallcross/sim/search"
 )
 
 // Set A of ../shared/extdata (README.txt there): CODE MGEX final products
@@ -230,4 +231,66 @@ func TestFormatLike(t *testing.T) {
 			t.Errorf("formatLike(%q, %g) = %q, %v; want %q", tc.old, tc.v, got, err, tc.want)
 		}
 	}
+}
+
+// TestSearchFindsOverlaidWall: the reference pipeline, run on the real set
+// A clocks with a strong overlaid wall, finds it at the right time and
+// direction, while the same search on the untouched file reports nothing
+// that loud.
+func TestSearchFindsOverlaidWall(t *testing.T) {
+	if testing.Short() {
+		t.Skip("search over 250 real clocks")
+	}
+	cf, sp3 := loadSetA(t)
+	w := strongWall(1800)
+	w.A2 *= 0.3 // 0.3 ns step: strong but far from saturating
+	res, err := Apply(cf, sp3, []inject.Wall{w}, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	cfg := search.Config{MaxDirections: 200, Speeds: []float64{250e3, 330e3}, Thicknesses: []float64{0, 1e7}, Workers: 2}
+	quiet := loudest(t, cf, sp3, cfg)
+	out, err := ParseClockFile("overlaid", res.Data)
+	if err != nil {
+		t.Fatal(err)
+	}
+	net, err := Network(out, sp3, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := search.Search(net, cfg)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var best search.Candidate
+	for _, c := range r.Candidates {
+		if c.Stat > best.Stat {
+			best = c
+		}
+	}
+	ang := math.Acos(math.Min(1, best.N[0]*w.N[0]+best.N[1]*w.N[1]+best.N[2]*w.N[2])) * 180 / math.Pi
+	t.Logf("untouched file: loudest stat %.1f; overlaid: stat %.1f at t0 %.0f s (true 1800 s), direction error %.1f deg, amplitude %.3g s", quiet, best.Stat, best.T0, ang, best.Amplitude)
+	if best.Stat < 3*quiet || best.Stat < 20 {
+		t.Errorf("overlaid wall found with stat %.1f; untouched file's loudest is %.1f", best.Stat, quiet)
+	}
+	if math.Abs(best.T0-1800) > 120 || ang > 20 {
+		t.Errorf("overlaid wall found at t0 %.0f s, %.1f deg off; want 1800 s within 120 s and 20 deg", best.T0, ang)
+	}
+}
+
+func loudest(t *testing.T, cf *ClockFile, sp3 *orbits.SP3, cfg search.Config) float64 {
+	t.Helper()
+	net, err := Network(cf, sp3, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := search.Search(net, cfg)
+	if err != nil {
+		t.Fatal(err)
+	}
+	m := 0.0
+	for _, s := range r.Stat {
+		m = math.Max(m, s)
+	}
+	return m
 }
