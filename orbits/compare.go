@@ -110,7 +110,12 @@ func Compare(nav *Nav, precise *SP3, o CompareOptions) (*Comparison, error) {
 				res.NoEphemeris++
 				continue
 			}
-			p, v, err := eph.PosVel(t)
+			var p, v [3]float64
+			if eph.Covers(t) {
+				p, v, err = eph.PosVel(t)
+			} else { // selected through Select.Extend
+				p, v, err = propagateUnchecked(eph, t)
+			}
 			if err != nil {
 				res.NoEphemeris++
 				continue

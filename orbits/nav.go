@@ -592,10 +592,43 @@ type SelectOptions struct {
 	// GalileoMessage is the Galileo message kept: "INAV" (default) or
 	// "FNAV"; the two carry different clock references and are never mixed.
 	GalileoMessage string
+	// Extend lets a record serve epochs up to Extend seconds beyond its fit
+	// interval (default 0: strict), to bridge gaps of station-collected nav
+	// files when metre accuracy is not needed. Accuracy then degrades with
+	// the distance from the reference epoch: Keplerian records grow to tens
+	// of metres within hours, GLONASS RK4 from the broadcast state faster
+	// (the luni-solar accelerations are constant only over ±15 min).
+	Extend float64
+}
+
+// halfFit returns the half-width of e's fit interval in seconds.
+func halfFit(e Ephemeris) float64 {
+	switch x := e.(type) {
+	case *Kepler:
+		return x.fitSeconds()
+	case *Glonass:
+		return glonassFit
+	}
+	return 0
+}
+
+// propagateUnchecked propagates e at t ignoring its fit interval.
+func propagateUnchecked(e Ephemeris, t Time) (pos, vel [3]float64, err error) {
+	switch x := e.(type) {
+	case *Kepler:
+		pos, vel = x.ensure().posVel(t.Sub(x.Toe))
+		return pos, vel, nil
+	case *Glonass:
+		pos, vel = x.integrate(t.Sub(x.Tb))
+		return pos, vel, nil
+	}
+	return e.PosVel(t)
 }
 
 // Select returns the record of sat whose reference epoch is nearest to t
-// among those whose fit interval covers t (healthy only unless
+// among those whose fit interval covers t (widened by SelectOptions.Extend
+// in SelectWith; the caller must then propagate beyond the fit interval
+// itself — Nav.Orbit does) (healthy only unless
 // keepUnhealthy; Galileo I/NAV only).
 func (n *Nav) Select(sat SatID, t Time, keepUnhealthy bool) (Ephemeris, error) {
 	return n.SelectWith(sat, t, SelectOptions{KeepUnhealthy: keepUnhealthy})
@@ -617,7 +650,7 @@ func (n *Nav) SelectWith(sat SatID, t Time, o SelectOptions) (Ephemeris, error) 
 	// Records are sorted by Ref; a linear scan is fine for a day file
 	// (≤ ~150 records per satellite).
 	for _, e := range recs {
-		if !e.Covers(t) {
+		if !e.Covers(t) && !(o.Extend > 0 && math.Abs(t.Sub(e.Ref())) <= halfFit(e)+o.Extend) {
 			continue
 		}
 		if sat.System() == 'E' && e.Message() != gm {
@@ -657,6 +690,9 @@ func (t *navTrack) PosVel(tm Time) (pos, vel [3]float64, err error) {
 	e, err := t.n.SelectWith(t.sat, tm, t.o)
 	if err != nil {
 		return pos, vel, err
+	}
+	if !e.Covers(tm) { // selected through SelectOptions.Extend
+		return propagateUnchecked(e, tm)
 	}
 	return e.PosVel(tm)
 }
