@@ -90,6 +90,14 @@ func (t *table) optFloat(i int, col string) (float64, error) {
 	return t.float(i, col)
 }
 
+// unknownFloat is optFloat that also reads "NaN" as unknown.
+func (t *table) unknownFloat(i int, col string) (float64, error) {
+	if strings.EqualFold(t.str(i, col), "nan") {
+		return math.NaN(), nil
+	}
+	return t.optFloat(i, col)
+}
+
 // integer parses a required integer.
 func (t *table) integer(i int, col string) (int, error) {
 	s := t.str(i, col)

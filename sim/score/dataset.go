@@ -23,7 +23,7 @@ type Event struct {
 	Speed     float64    // speed relative to the geocentre, m/s
 	Thickness float64    // wall thickness, m
 	Profile   string     // profile name
-	LambdaEff float64    // effective coupling scale Λ_eff, GeV
+	LambdaEff float64    // effective coupling scale Λ_eff, GeV; NaN if not given (empty or NaN)
 	PeakDnu   float64    // peak fractional frequency shift (dimensionless); NaN if absent
 	MaxStep   float64    // largest |step_s| over this event's crossings, s; NaN without crossings
 	MaxLag    float64    // largest |t_cross − t0| over this event's crossings, s; 0 without crossings
@@ -92,7 +92,7 @@ func (tr *Truth) readEvents(path string) error {
 	return tr.eventsFrom(t)
 }
 
-var eventColumns = []string{"event", "t0_s", "nx", "ny", "nz", "speed_m_s", "thickness_m", "lambda_eff_gev"}
+var eventColumns = []string{"event", "t0_s", "nx", "ny", "nz", "speed_m_s", "thickness_m"}
 
 func (tr *Truth) eventsFrom(t *table) error {
 	var err error
@@ -127,13 +127,13 @@ func (tr *Truth) eventsFrom(t *table) error {
 		if e.Thickness, err = t.float(i, "thickness_m"); err != nil {
 			return err
 		}
-		if e.LambdaEff, err = t.float(i, "lambda_eff_gev"); err != nil {
+		if e.LambdaEff, err = t.unknownFloat(i, "lambda_eff_gev"); err != nil {
 			return err
 		}
 		if e.Speed <= 0 || e.Thickness <= 0 || e.LambdaEff <= 0 {
 			return t.errorf(i, "speed %g m/s, thickness %g m and lambda_eff %g GeV must be positive", e.Speed, e.Thickness, e.LambdaEff)
 		}
-		if e.PeakDnu, err = t.optFloat(i, "peak_dnu"); err != nil {
+		if e.PeakDnu, err = t.unknownFloat(i, "peak_dnu"); err != nil {
 			return err
 		}
 		tr.Events = append(tr.Events, e)

@@ -22,7 +22,7 @@ func EffColumns() []string { return append([]string(nil), effColumns...) }
 type EffRow struct {
 	Thickness float64 // wall thickness d, m
 	Speed     float64 // wall speed, m/s; NaN = pooled over the speed prior (empty cell)
-	LambdaEff float64 // effective coupling scale Λ_eff, GeV
+	LambdaEff float64 // effective coupling scale Λ_eff, GeV; NaN = unknown (empty cell)
 	Step      float64 // representative bias step of the cell (median over its injections of the largest per-clock |step|), s; NaN = unknown
 	N         int     // usable injections (not in gaps)
 	Found     int     // injections found
@@ -90,7 +90,7 @@ func SortEff(rows []EffRow) {
 		if keyOf(0, a.Speed, 0) != keyOf(0, b.Speed, 0) {
 			return lessNaN(a.Speed, b.Speed)
 		}
-		return a.LambdaEff < b.LambdaEff
+		return lessNaN(a.LambdaEff, b.LambdaEff)
 	})
 }
 
@@ -126,11 +126,11 @@ func WriteEfficiencyFile(path string, rows []EffRow) error {
 }
 
 // ReadEfficiency reads an efficiency table. Columns are found by name;
-// thickness_m, lambda_eff_gev, n and found are required, speed_m_s and
-// step_s optional (empty = pooled / unknown). The efficiency and interval
+// thickness_m, n and found are required; speed_m_s, lambda_eff_gev and
+// step_s are optional (empty = pooled / unknown). The efficiency and interval
 // columns are not trusted: they are recomputed from n and found.
 func ReadEfficiency(r io.Reader, name string) ([]EffRow, error) {
-	t, err := readTable(r, name, "thickness_m", "lambda_eff_gev", "n", "found")
+	t, err := readTable(r, name, "thickness_m", "n", "found")
 	if err != nil {
 		return nil, err
 	}
@@ -141,7 +141,7 @@ func ReadEfficiency(r io.Reader, name string) ([]EffRow, error) {
 		if r.Thickness, err = t.float(i, "thickness_m"); err != nil {
 			return nil, err
 		}
-		if r.LambdaEff, err = t.float(i, "lambda_eff_gev"); err != nil {
+		if r.LambdaEff, err = t.optFloat(i, "lambda_eff_gev"); err != nil {
 			return nil, err
 		}
 		if r.Speed, err = t.optFloat(i, "speed_m_s"); err != nil {
@@ -156,7 +156,7 @@ func ReadEfficiency(r io.Reader, name string) ([]EffRow, error) {
 		if r.Found, err = t.integer(i, "found"); err != nil {
 			return nil, err
 		}
-		if !(r.Thickness > 0) || !(r.LambdaEff > 0) || r.Speed <= 0 {
+		if !(r.Thickness > 0) || r.LambdaEff <= 0 || r.Speed <= 0 {
 			return nil, t.errorf(i, "thickness %g m, speed %g m/s and lambda_eff %g GeV must be positive", r.Thickness, r.Speed, r.LambdaEff)
 		}
 		if r.N < 0 || r.Found < 0 || r.Found > r.N {

@@ -80,7 +80,7 @@ func TestReadEfficiencyErrors(t *testing.T) {
 	hdr := "thickness_m,speed_m_s,lambda_eff_gev,step_s,n,found\n"
 	for _, c := range []struct{ in, want string }{
 		{"", "empty file"},
-		{"thickness_m,n,found\n1,2,1\n", `e.csv:1: missing required column "lambda_eff_gev"`},
+		{"thickness_m,lambda_eff_gev,found\n1,2,1\n", `e.csv:1: missing required column "n"`},
 		{hdr + "1e6,3e5,1e12,,10,11\n", "e.csv:2: columns n,found: need 0 ≤ found ≤ n, got found=11 n=10"},
 		{hdr + "1e6,3e5,1e12,,ten,1\n", `e.csv:2: column n: bad integer "ten"`},
 		{hdr + "1e6,3e5,abc,,10,1\n", `e.csv:2: column lambda_eff_gev: bad number "abc"`},
@@ -93,6 +93,16 @@ func TestReadEfficiencyErrors(t *testing.T) {
 		if err == nil || !strings.Contains(err.Error(), c.want) {
 			t.Errorf("%q: err = %v, want %q", c.in, err, c.want)
 		}
+	}
+}
+
+func TestEfficiencyUnknownLambda(t *testing.T) {
+	rows, err := ReadEfficiency(strings.NewReader("thickness_m,n,found\n1e6,10,2\n"), "e.csv")
+	if err != nil || len(rows) != 1 || !math.IsNaN(rows[0].LambdaEff) {
+		t.Fatalf("rows %+v, err %v", rows, err)
+	}
+	if _, err := Reach(rows, ReachOptions{MeanIntervals: []float64{1}, Span: 10}); err == nil || !strings.Contains(err.Error(), "needs a positive Λ_eff") {
+		t.Errorf("reach without Λ_eff: %v", err)
 	}
 }
 

@@ -81,6 +81,11 @@ func Reach(rows []EffRow, opt ReachOptions) ([]ReachPoint, error) {
 	if !(tinj > 0) || math.IsInf(tinj, 0) {
 		return nil, fmt.Errorf("score: reach: injected interval %g s must be positive", tinj)
 	}
+	for _, r := range rows {
+		if !(r.LambdaEff > 0) || !(r.Thickness > 0) {
+			return nil, fmt.Errorf("score: reach: cell thickness=%g m has lambda_eff %g GeV; every cell needs a positive Λ_eff", r.Thickness, r.LambdaEff)
+		}
+	}
 	pooled, err := poolSpeeds(rows)
 	if err != nil {
 		return nil, err

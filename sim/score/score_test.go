@@ -53,6 +53,26 @@ func TestReadTruth(t *testing.T) {
 	}
 }
 
+// TestEventsUnknownLambda: lambda_eff_gev and peak_dnu may be empty or NaN
+// (walls given by their step); the cell then has no Λ_eff.
+func TestEventsUnknownLambda(t *testing.T) {
+	tr, err := truthFrom("event,t0_s,nx,ny,nz,speed_m_s,thickness_m,profile,lambda_eff_gev,peak_dnu\n0,100,0,0,1,3e5,1e6,gaussian,NaN,NaN\n1,900,0,0,1,3e5,1e6,gaussian,,\n",
+		"", "t_s,A\n0,1\n300,1\n600,1\n900,1\n")
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := Score(tr, []Candidate{{Line: 2, T0: 110, Stat: 1}}, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(r.Cells) != 1 || r.Cells[0].N != 2 || r.Cells[0].Found != 1 || !math.IsNaN(r.Cells[0].LambdaEff) {
+		t.Errorf("cells %+v", r.Cells)
+	}
+	if _, err := truthFrom("event,t0_s,nx,ny,nz,speed_m_s,thickness_m,lambda_eff_gev\n0,1,0,0,1,3e5,1e6,-1\n", "", "t_s\n0\n"); err == nil {
+		t.Error("negative Λ_eff accepted")
+	}
+}
+
 func TestInGap(t *testing.T) {
 	tr, _ := readDS1(t)
 	for _, c := range []struct {
@@ -251,4 +271,36 @@ func ExampleScore() {
 	// Output:
 	// window 265.6 s: 6 found, 1 missed, 1 in gaps, 3 false alarms/day
 	// efficiency 0.857, Clopper–Pearson [0.421, 0.996]
+}
+
+// TestSummaryFits: the sigmoid fits per thickness appear in the printed
+// summary and in summary.json.
+func TestSummaryFits(t *testing.T) {
+	cells := synthEff(t)
+	r := &Result{Cells: cells, CellGap: make([]int, len(cells)), Threshold: math.NaN(), Efficiency: math.NaN()}
+	var out bytes.Buffer
+	if err := r.WriteSummary(&out); err != nil {
+		t.Fatal(err)
+	}
+	if strings.Count(out.String(), "h50 = ") != 2 {
+		t.Errorf("summary:\n%s", out.String())
+	}
+	b, err := json.Marshal(r.summary())
+	if err != nil {
+		t.Fatal(err)
+	}
+	var s struct {
+		Fits []struct {
+			Thickness float64 `json:"thickness_m"`
+			Mu        float64 `json:"mu_log10"`
+			MuErr     float64 `json:"mu_err"`
+		} `json:"sigmoid_fits"`
+	}
+	if err := json.Unmarshal(b, &s); err != nil {
+		t.Fatal(err)
+	}
+	// synthEff draws d = 1e6 m from μ = −10.5 and d = 1e7 m from μ = −10.
+	if len(s.Fits) != 2 || s.Fits[0].Thickness != 1e6 || math.Abs(s.Fits[0].Mu+10.5) > 4*s.Fits[0].MuErr || math.Abs(s.Fits[1].Mu+10) > 4*s.Fits[1].MuErr {
+		t.Errorf("fits %+v", s.Fits)
+	}
 }

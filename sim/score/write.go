@@ -8,6 +8,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"sort"
 )
 
 // jnum is a float64 that encodes NaN and ±Inf as JSON null.
@@ -39,6 +40,32 @@ type jcell struct {
 	CP        jinterval `json:"clopper_pearson"`
 }
 
+type jfit struct {
+	Thickness jnum      `json:"thickness_m"`
+	Amplitude string    `json:"amplitude"`
+	Mu        jnum      `json:"mu_log10"`
+	MuErr     jnum      `json:"mu_err"`
+	W         jnum      `json:"w_decades"`
+	WErr      jnum      `json:"w_err"`
+	H50       jnum      `json:"h50"`
+	H50Int    jinterval `json:"h50_interval"`
+	H90       jnum      `json:"h90"`
+	H90Int    jinterval `json:"h90_interval"`
+	CL        float64   `json:"interval_cl"`
+}
+
+// fitCL is the confidence level of the h50/h90 intervals in score outputs.
+const fitCL = 0.6827
+
+func sortedFits(fits map[float64]Sigmoid) []float64 {
+	ds := make([]float64, 0, len(fits))
+	for d := range fits {
+		ds = append(ds, d)
+	}
+	sort.Float64s(ds)
+	return ds
+}
+
 type jsummary struct {
 	Window        jnum      `json:"window_s"`
 	WindowSource  string    `json:"window_source"`
@@ -64,6 +91,7 @@ type jsummary struct {
 	False         int       `json:"false_alarms"`
 	FalsePerDay   jnum      `json:"false_alarms_per_day"`
 	Cells         []jcell   `json:"cells"`
+	Fits          []jfit    `json:"sigmoid_fits"`
 	TimeReference string    `json:"time_reference"`
 }
 
@@ -81,6 +109,13 @@ func (r *Result) summary() jsummary {
 		Candidates: r.Candidates, Counted: r.Counted, False: r.False, FalsePerDay: jnum(r.FalsePerDay),
 		Cells:         []jcell{},
 		TimeReference: "seconds since the first epoch of the dataset (GPS time)",
+	}
+	fits := FitByThickness(r.Cells, fitCL)
+	s.Fits = []jfit{}
+	for _, d := range sortedFits(fits) {
+		g := fits[d]
+		s.Fits = append(s.Fits, jfit{jnum(d), "step_s", jnum(g.Mu), jnum(g.MuErr), jnum(g.W), jnum(g.WErr),
+			jnum(g.H50), jiv(g.H50Int), jnum(g.H90), jiv(g.H90Int), g.CL})
 	}
 	for i, c := range r.Cells {
 		s.Cells = append(s.Cells, jcell{jnum(c.Thickness), jnum(c.Speed), jnum(c.LambdaEff), jnum(c.Step), c.N, c.Found, r.CellGap[i],
@@ -117,6 +152,14 @@ func (r *Result) WriteSummary(w io.Writer) error {
 			}
 			fmt.Fprintf(&b, "%12.4g %10s %12.4g %11.4g %5d %5d %4d %8s [%s, %s]\n", c.Thickness/1e3, sp, c.LambdaEff, c.Step,
 				c.N, c.Found, r.CellGap[i], fmtProb(c.Eff), fmtProb(c.CP.Low), fmtProb(c.CP.High))
+		}
+	}
+	if fits := FitByThickness(r.Cells, fitCL); len(fits) > 0 {
+		fmt.Fprintf(&b, "\nsigmoid fits in the bias step (%.2f %% profile-likelihood intervals):\n", fitCL*100)
+		for _, d := range sortedFits(fits) {
+			g := fits[d]
+			fmt.Fprintf(&b, "  d = %.4g km: h50 = %.3g s [%.3g, %.3g], h90 = %.3g s [%.3g, %.3g], width %.3g ± %.2g decades\n",
+				d/1e3, g.H50, g.H50Int.Low, g.H50Int.High, g.H90, g.H90Int.Low, g.H90Int.High, g.W, g.WErr)
 		}
 	}
 	_, err := w.Write(b.Bytes())
@@ -167,7 +210,7 @@ func (r *Result) WriteFiles(dir string) error {
 		hasStep = hasStep || (c.Step > 0 && c.N > 0)
 	}
 	if hasStep {
-		fits := FitByThickness(r.Cells, 0.6827)
+		fits := FitByThickness(r.Cells, fitCL)
 		if err := PlotEfficiency(filepath.Join(dir, "efficiency.png"), r.Cells, fits); err != nil {
 			return err
 		}
