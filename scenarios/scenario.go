@@ -27,7 +27,49 @@ type Scenario struct {
 	Noise          Noise           `yaml:"noise,omitempty"`
 	Walls          Walls           `yaml:"walls,omitempty"`
 	Nuisances      Nuisances       `yaml:"nuisances,omitempty"`
+	Links          *Links          `yaml:"links,omitempty"`
 }
+
+// Links switches on the observation level: the walls' delay on every
+// satellite→station link, ionosphere-free code and phase observations and
+// the network clock estimation that turns them into clock solutions
+// (written as estimated.clk and estimated.csv beside the true ones).
+// Off unless the section is given.
+type Links struct {
+	// Delay adds each wall's excess propagation delay to the links
+	// (default false).
+	Delay bool `yaml:"delay,omitempty"`
+	// IndexModel sets n − 1 = k·δα/α inside a wall: permittivity (default,
+	// k = −½), lorentz (k = 0, n = 1) or user (k = user_coefficient).
+	IndexModel string `yaml:"index_model,omitempty"`
+	// UserCoefficient is k for index_model: user.
+	UserCoefficient float64 `yaml:"user_coefficient,omitempty"`
+	// ElevationMask is the lowest elevation of a link (default 10 deg).
+	ElevationMask Angle `yaml:"elevation_mask,omitempty"`
+	// RayBending adds the second-order excess path of ray bending in the
+	// wall to the delay (default false; it is always reported).
+	RayBending bool `yaml:"ray_bending,omitempty"`
+	// Estimate simulates the observations and estimates the clocks
+	// (default true when the section is given).
+	Estimate *bool `yaml:"estimate,omitempty"`
+	// CodeNoise and PhaseNoise are the ionosphere-free white noise at
+	// zenith (default 0.3 m and 3 mm; 0 m for noise-free observations
+	// is written "0 m").
+	CodeNoise  Length `yaml:"code_noise,omitempty"`
+	PhaseNoise Length `yaml:"phase_noise,omitempty"`
+	// Troposphere adds a slant tropospheric delay (Saastamoinen zenith
+	// hydrostatic delay, zenith wet delay ZenithWet, default 0.1 m) that the
+	// estimation models exactly (default false).
+	Troposphere bool   `yaml:"troposphere,omitempty"`
+	ZenithWet   Length `yaml:"zenith_wet,omitempty"`
+	// SlipProbability per link and epoch of a cycle slip (default 0).
+	SlipProbability float64 `yaml:"slip_probability,omitempty"`
+	// OutlierProbability per observation of a code outlier (default 0).
+	OutlierProbability float64 `yaml:"outlier_probability,omitempty"`
+}
+
+// EstimateOn reports whether the clock estimation runs.
+func (l *Links) EstimateOn() bool { return l != nil && (l.Estimate == nil || *l.Estimate) }
 
 // TimeSection sets the epochs of the dataset, on GPS time.
 type TimeSection struct {
@@ -170,11 +212,18 @@ type Walls struct {
 	// default rb).
 	ReportFamily string `yaml:"report_family,omitempty"`
 
+	// ClockResponse is whether clocks respond to the walls (default
+	// true); false leaves only the link delay (see links).
+	ClockResponse *bool `yaml:"clock_response,omitempty"`
+
 	// Population draws walls at random; Events gives them explicitly.
 	// Both may be used together.
 	Population *Population `yaml:"population,omitempty"`
 	Events     []WallEvent `yaml:"events,omitempty"`
 }
+
+// RespondsToWalls reports whether the clocks' own wall response is on.
+func (w *Walls) RespondsToWalls() bool { return w.ClockResponse == nil || *w.ClockResponse }
 
 // Population draws walls from the standard halo model.
 type Population struct {

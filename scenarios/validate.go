@@ -157,6 +157,23 @@ func (s *Scenario) applyDefaults() {
 	if b := s.Nuisances.Batches; b != nil && !b.Interval.set {
 		b.Interval = Seconds(DefaultBatchLength)
 	}
+	if l := s.Links; l != nil {
+		if l.IndexModel == "" {
+			l.IndexModel = "permittivity"
+		}
+		if !l.ElevationMask.set {
+			l.ElevationMask = Radians(10 * math.Pi / 180)
+		}
+		if !l.CodeNoise.set {
+			l.CodeNoise = Metres(0.3)
+		}
+		if !l.PhaseNoise.set {
+			l.PhaseNoise = Metres(0.003)
+		}
+		if l.Troposphere && !l.ZenithWet.set {
+			l.ZenithWet = Metres(0.1)
+		}
+	}
 }
 
 var nameRE = regexp.MustCompile(`^[A-Za-z0-9][A-Za-z0-9_.-]*$`)
@@ -250,6 +267,37 @@ func (s *Scenario) validate(v *validator) {
 	s.Noise.validate(v)
 	s.Walls.validate(v, s.Time.Span.si)
 	s.Nuisances.validate(v)
+	s.Links.validate(v)
+}
+
+func (l *Links) validate(v *validator) {
+	if l == nil {
+		return
+	}
+	switch l.IndexModel {
+	case "permittivity", "lorentz":
+		if l.UserCoefficient != 0 {
+			v.add("links.user_coefficient", "only with index_model: user")
+		}
+	case "user":
+		v.finite("links.user_coefficient", l.UserCoefficient)
+	default:
+		v.add("links.index_model", "%q: want permittivity, lorentz or user", l.IndexModel)
+	}
+	if m := l.ElevationMask; m.si < 0 || m.si >= math.Pi/2 {
+		v.addAt("links.elevation_mask", m.line, "must be 0 to 90 deg, got %s", showQ(m.quantity, DimAngle))
+	}
+	v.nonNegative("links.code_noise", l.CodeNoise.quantity, DimLength)
+	v.nonNegative("links.phase_noise", l.PhaseNoise.quantity, DimLength)
+	v.nonNegative("links.zenith_wet", l.ZenithWet.quantity, DimLength)
+	for name, p := range map[string]float64{"slip_probability": l.SlipProbability, "outlier_probability": l.OutlierProbability} {
+		if v.finite("links."+name, p) && (p < 0 || p >= 1) {
+			v.add("links."+name, "must be in [0, 1), got %g", p)
+		}
+	}
+	if !l.Delay && !l.EstimateOn() {
+		v.add("links", "neither delay nor estimate is on: remove the section or switch one on")
+	}
 }
 
 func (t *TimeSection) validate(v *validator) {
