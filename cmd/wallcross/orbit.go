@@ -22,6 +22,7 @@ func newOrbitCmd() *command {
 	against := fs.String("against", "", "precise orbit `FILE` (SP3-c/d, plain or gzip) to compare the broadcast orbits with")
 	unhealthy := fs.Bool("keep-unhealthy", false, "also use ephemerides whose health word is non-zero")
 	galMsg := fs.String("galileo", "inav", "Galileo message to use: inav or fnav (they are never mixed)")
+	extend := fs.String("extend", "0s", "let a record serve epochs up to this `DURATION` beyond its fit interval (bridges gaps; lower accuracy)")
 	return &command{
 		Name:  "orbit",
 		Usage: "orbit NAVFILE --out FILE.sp3 [--start T --span D --step S] [--systems GEC...] [--against PRECISE.sp3]",
@@ -33,7 +34,10 @@ af0-af2 or -tauN+gammaN*dt, without the periodic relativistic term, as in IGS
 SP3 clocks) as an SP3-d file. At each epoch the record with the nearest
 reference time inside its fit interval is used (healthy records only unless
 --keep-unhealthy; Galileo I/NAV unless --galileo fnav); an epoch no record
-covers is written as missing.
+covers is written as missing. Fit intervals: GPS from the record (normally
+±2 h), QZSS from its flag, Galileo and BeiDou ±1 h, GLONASS ±15 min;
+--extend widens them (useful to bridge the gaps of a station-collected file
+when metre accuracy is not needed).
 
 Supported records: GPS and QZSS LNAV, Galileo I/NAV and F/NAV, BeiDou D1/D2
 (including the GEO rotation) and GLONASS FDMA (RK4 with J2 and the luni-solar
@@ -83,6 +87,9 @@ quantity with a unit (300 s, 2 h).`,
 				}
 			}
 			sel := orbits.SelectOptions{KeepUnhealthy: *unhealthy}
+			if sel.Extend, err = parseCLIDuration(*extend); err != nil || sel.Extend < 0 {
+				return usageErrorf("bad --extend %q: want a non-negative duration such as 1h", *extend)
+			}
 			switch strings.ToLower(*galMsg) {
 			case "inav":
 				sel.GalileoMessage = "INAV"

@@ -86,6 +86,8 @@ func TestOrbitCommandErrors(t *testing.T) {
 		{[]string{"orbit", "x.rnx", "--out", "o.sp3", "--step", "-5m"}, exitUsage, "bad --step"},
 		{[]string{"orbit", "x.rnx", "--out", "o.sp3", "--systems", "GX"}, exitUsage, "bad --systems"},
 		{[]string{"orbit", "x.rnx", "--out", "o.sp3", "--span", "6h"}, exitUsage, "--span needs --start"},
+		{[]string{"orbit", "x.rnx", "--out", "o.sp3", "--extend", "soon"}, exitUsage, "bad --extend"},
+		{[]string{"orbit", "x.rnx", "--out", "o.sp3", "--galileo", "cnav"}, exitUsage, "bad --galileo"},
 		{[]string{"orbit", filepath.Join(dir, "missing.rnx"), "--out", filepath.Join(dir, "o.sp3")}, exitFailure, "could not open"},
 		{[]string{"orbit", bad, "--out", filepath.Join(dir, "o.sp3")}, exitFailure, "bad.rnx:1: unknown RINEX navigation version 9.99"},
 	} {
