@@ -116,14 +116,17 @@ func (m ClockModel) Validate() error {
 //
 // Method: white PM as white phase; white FM and random-walk FM by exact
 // summation of white frequency; flicker PM (on phase) and flicker FM (on
-// frequency) by the Kasdin–Walter filter (1 − z⁻¹)^(−1/2) applied as one
-// linear FFT convolution of length L ≥ 2n (L = 2^a·3^b·5^c). Noise levels
+// frequency) by the Kasdin–Walter filter (1 − z⁻¹)^(−1/2), both applied in
+// one linear FFT convolution (the running sum that turns flicker frequency
+// into phase commutes with the filter) of padded length L = the power of two
+// ≥ 2n, packed into L/2-point complex radix-2 transforms. Noise levels
 // follow K&W 1992 eq. (39): Q_d = h_α / (2 (2π)^α τ0^(α−1)) for the phase
 // process (see noise.Qd).
 //
 // Peak memory: about 8 bytes per sample (the result) when both flicker terms
-// are zero, and about 88 bytes per sample otherwise (result 8n, padded real
-// buffer 8L, two half spectra 2·16(L/2+1), FFT work space 16L with L ≈ 2n).
+// are zero; otherwise 8n (result) + 8n (filter input) + 16L (two half-length
+// complex spectra), i.e. 40–72 bytes per sample (48 when n is a power of
+// two; 70 for n = 10⁷).
 // It panics if n < 0 or tau0 ≤ 0 or m is invalid (programmer errors; call
 // Validate first for user input).
 func (m ClockModel) Phase(rng *rand.Rand, n int, tau0 float64) []float64 {
