@@ -24,7 +24,19 @@ type Crossing struct {
 	Profile  Profile
 	Scale    float64 // Γ·Aⁿ, dimensionless
 	Residual float64 // |N·r(TCross) − v·(TCross − T0)|/v, s
+	AccelN   float64 // N·r̈ at the crossing, m/s² (5-s second difference; NaN if unknown)
 }
+
+// accelStep is the step of the second difference for N·r̈, s.
+const accelStep = 5.0
+
+// LinearError returns the bound on the error of the linear approximation
+// within ±3τ of the crossing, in units of the wall thickness:
+// |δu| ≤ |N·r̈|·(3τ)²/(2d) = 4.5·|N·r̈|·τ/v_rel (see the package doc). It is
+// a local estimate: once 3τ approaches a quarter orbit it understates the
+// error, but it grows as τ² there anyway. Above about 1e-4, prefer
+// RenderPhaseAlong.
+func (c Crossing) LinearError() float64 { return 4.5 * math.Abs(c.AccelN) * c.Tau / c.VRel }
 
 // CrossTolerance is the time tolerance of the crossing solver, s.
 const CrossTolerance = 1e-9
@@ -63,8 +75,11 @@ func (w *Wall) Cross(clock, family string, tr Trajectory) (Crossing, error) {
 	if !(vrel > 0) || math.IsInf(vrel, 0) {
 		return Crossing{}, fmt.Errorf("inject: wall %d, clock %q: relative normal speed %g m/s at t=%g s is not positive (clock faster than the wall?)", w.ID, clock, vrel, tc)
 	}
+	// N·r̈ by a second difference (for LinearError only; NaN if the
+	// trajectory is not finite within 5 s of the crossing).
+	acc := (dot(w.N, tr(tc+accelStep)) - 2*dot(w.N, tr(tc)) + dot(w.N, tr(tc-accelStep))) / (accelStep * accelStep)
 	return Crossing{Event: w.ID, Clock: clock, Family: family, TCross: tc, VRel: vrel,
-		Tau: w.Thickness / vrel, Profile: w.Profile, Scale: scale, Residual: res}, nil
+		Tau: w.Thickness / vrel, Profile: w.Profile, Scale: scale, Residual: res, AccelN: acc}, nil
 }
 
 func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }

@@ -95,7 +95,13 @@
 // rate, hence the pulse area, is off by at most a_max·kτ/v_rel. For d = 1e7 m
 // at 300 km/s (τ = 33 s, k = 3) this is 2.8e-4 in u and 1.9e-4 in area; for
 // d = 1e8 m (τ = 333 s) 2.8e-3 and 1.9e-3. It breaks down for walls whose
-// crossing lasts a good fraction of an orbit (τ ≳ 1 h).
+// crossing lasts a good fraction of an orbit (τ ≳ 1 h), where it would also
+// give each satellite a spurious speed-dependent step (v/v_rel differs by
+// up to ±1.3 % between satellites). Crossing.LinearError reports the local
+// bound; for such walls RenderPhaseAlong integrates the profile along the
+// trajectory itself, u(t) = (v·(t − T0) − N·r(t))/d, by 5-point
+// Gauss–Legendre on pieces ≤ min(τ/10, 300 s) (exact edge times for the
+// top-hat), agreeing with independent quadrature to 1e-9 of the step.
 //
 // # Rendering
 //
