@@ -1,7 +1,9 @@
 package noise
 
 import (
+	"fmt"
 	"math"
+	"math/rand/v2"
 
 	"gonum.org/v1/gonum/dsp/fourier"
 )
@@ -47,11 +49,15 @@ func SmoothLen(n int) int {
 	return best
 }
 
-// flickerConv holds the convolution input buffer for the a = 1 Kasdin filter.
+// flickerConv holds the convolution buffers for the a = 1 Kasdin filter.
+// Its zh (impulse-response spectrum) and zv buffers may be kept between
+// calls of the same length (see Generator).
 type flickerConv struct {
-	v []float64 // filter input, length n
-	n int
-	l int // padded length L ≥ 2n, a power of two
+	v  []float64    // filter input, length n
+	n  int          // series length
+	l  int          // padded length L ≥ 2n, a power of two
+	zv []complex128 // L/2 packed input / product buffer
+	zh []complex128 // L/2 packed spectrum of the impulse response (nil until computed)
 }
 
 // convLen returns the padded length L of the linear convolution of two
@@ -70,9 +76,16 @@ func convLen(n int) int {
 
 // input returns a zeroed input buffer of length n for the caller to fill.
 func (g *flickerConv) input(n int) []float64 {
-	g.n = n
-	g.l = convLen(n)
-	g.v = make([]float64, n)
+	if g.n != n || g.zv == nil {
+		g.n, g.l = n, convLen(n)
+		g.zv, g.zh = nil, nil
+	}
+	if cap(g.v) >= n {
+		g.v = g.v[:n]
+		clear(g.v)
+	} else {
+		g.v = make([]float64, n)
+	}
 	return g.v
 }
 
@@ -87,7 +100,11 @@ func (g *flickerConv) apply(x []float64) { g.applyPacked(x) }
 func (g *flickerConv) applyPacked(x []float64) {
 	n, l := g.n, g.l
 	m := l / 2
-	zv := make([]complex128, m)
+	if g.zv == nil {
+		g.zv = make([]complex128, m)
+	}
+	zv := g.zv
+	clear(zv)
 	for k, v := range g.v {
 		if k&1 == 0 {
 			zv[k/2] = complex(v, 0)
@@ -95,19 +112,22 @@ func (g *flickerConv) applyPacked(x []float64) {
 			zv[k/2] = complex(real(zv[k/2]), v)
 		}
 	}
-	g.v = nil
-	zh := make([]complex128, m)
-	hk := 1.0
-	for k := range n {
-		if k&1 == 0 {
-			zh[k/2] = complex(hk, 0)
-		} else {
-			zh[k/2] = complex(real(zh[k/2]), hk)
+	if g.zh == nil {
+		zh := make([]complex128, m)
+		hk := 1.0
+		for k := range n {
+			if k&1 == 0 {
+				zh[k/2] = complex(hk, 0)
+			} else {
+				zh[k/2] = complex(real(zh[k/2]), hk)
+			}
+			hk *= (0.5 + float64(k)) / float64(k+1)
 		}
-		hk *= (0.5 + float64(k)) / float64(k+1)
+		fourier.CoefficientsRadix2(zh)
+		g.zh = zh
 	}
+	zh := g.zh
 	fourier.CoefficientsRadix2(zv)
-	fourier.CoefficientsRadix2(zh)
 	// unpack: V_j = E_j + W^j O_j with E_j = (Z_j + Z*_{M−j})/2,
 	// O_j = (Z_j − Z*_{M−j})/(2i), W = exp(−2πi/L); multiply by H_j; repack
 	// Z'_j = E'_j + i O'_j with E'_j = (P_j + P*_{M−j})/2,
@@ -160,3 +180,28 @@ func (g *flickerConv) applyPacked(x []float64) {
 }
 
 func cmplxConj(c complex128) complex128 { return complex(real(c), -imag(c)) }
+
+// Generator produces phase series of one fixed length n, keeping the FFT
+// buffers and the filter spectrum between calls: for many clocks of the
+// same length it saves one of the three FFTs and all large allocations but
+// the result. It is not safe for concurrent use; give each worker its own.
+// Its output is bit-for-bit that of ClockModel.Phase.
+type Generator struct {
+	n    int
+	conv flickerConv
+}
+
+// NewGenerator returns a Generator for series of n samples. Memory held
+// between calls: 8n (input) + 16L (two spectra) bytes, L = power of two ≥ 2n,
+// once a model with a flicker term has been generated.
+func NewGenerator(n int) *Generator {
+	if n < 0 {
+		panic(fmt.Sprintf("noise: NewGenerator: n = %d < 0", n))
+	}
+	return &Generator{n: n}
+}
+
+// Phase returns n samples of the phase of m (see ClockModel.Phase).
+func (g *Generator) Phase(m ClockModel, rng *rand.Rand, tau0 float64) []float64 {
+	return m.phase(rng, g.n, tau0, &g.conv)
+}

@@ -57,3 +57,25 @@ func TestFlickerConvolution(t *testing.T) {
 		}
 	}
 }
+
+// TestGeneratorMatchesPhase: a reused Generator gives the same bits as
+// ClockModel.Phase, call after call, also when the model changes.
+func TestGeneratorMatchesPhase(t *testing.T) {
+	models := []ClockModel{
+		{H: [5]float64{1e-25, 1e-24, 1e-23, 1e-28, 1e-34}, Drift: 1e-18},
+		{H: [5]float64{0, 0, 1e-23, 0, 0}},
+		{H: [5]float64{0, 3e-24, 0, 2e-29, 0}},
+	}
+	g := NewGenerator(777)
+	for round := range 2 {
+		for i, m := range models {
+			a := m.Phase(rand.New(rand.NewPCG(uint64(i), uint64(round))), 777, 30)
+			b := g.Phase(m, rand.New(rand.NewPCG(uint64(i), uint64(round))), 30)
+			for k := range a {
+				if a[k] != b[k] {
+					t.Fatalf("round %d model %d: sample %d differs: %g vs %g", round, i, k, a[k], b[k])
+				}
+			}
+		}
+	}
+}

@@ -130,6 +130,12 @@ func (m ClockModel) Validate() error {
 // It panics if n < 0 or tau0 ≤ 0 or m is invalid (programmer errors; call
 // Validate first for user input).
 func (m ClockModel) Phase(rng *rand.Rand, n int, tau0 float64) []float64 {
+	var g flickerConv
+	return m.phase(rng, n, tau0, &g)
+}
+
+// phase is Phase with caller-provided convolution buffers.
+func (m ClockModel) phase(rng *rand.Rand, n int, tau0 float64, g *flickerConv) []float64 {
 	if n < 0 || !(tau0 > 0) {
 		panic(fmt.Sprintf("noise: Phase: bad n=%d or tau0=%g s", n, tau0))
 	}
@@ -140,8 +146,7 @@ func (m ClockModel) Phase(rng *rand.Rand, n int, tau0 float64) []float64 {
 	if n == 0 {
 		return x
 	}
-	var g flickerConv
-	m.addNoise(x, rng, tau0, &g)
+	m.addNoise(x, rng, tau0, g)
 	m.addDeterministic(x, tau0, 0)
 	if m.Steering != nil {
 		steer(x, tau0/m.Steering.TimeConstant)
