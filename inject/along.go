@@ -133,3 +133,16 @@ func RenderPhaseAlong(dst, times []float64, w *Wall, c Crossing, tr Trajectory) 
 	}
 	return nil
 }
+
+// RenderPhaseAlongGrid is RenderPhaseAlong on the uniform grid
+// t_k = start + k·step (s).
+func RenderPhaseAlongGrid(dst []float64, start, step float64, w *Wall, c Crossing, tr Trajectory) error {
+	if !(step > 0) || math.IsInf(step, 0) || !finite(start) {
+		return fmt.Errorf("inject: render phase along: grid start %g s, step %g s must be finite with step > 0", start, step)
+	}
+	times := make([]float64, len(dst))
+	for k := range times {
+		times[k] = start + float64(k)*step
+	}
+	return RenderPhaseAlong(dst, times, w, c, tr)
+}

@@ -133,6 +133,20 @@ func TestAlongErrors(t *testing.T) {
 	if err := RenderPhaseAlong(make([]float64, 3), times, &other, c, tr); err == nil {
 		t.Error("crossing of another wall accepted")
 	}
+	g := make([]float64, 3)
+	if err := RenderPhaseAlongGrid(g, 0, 30, &w, c, tr); err != nil {
+		t.Fatal(err)
+	}
+	a := make([]float64, 3)
+	if err := RenderPhaseAlong(a, times, &w, c, tr); err != nil {
+		t.Fatal(err)
+	}
+	if g[0] != a[0] || g[1] != a[1] || g[2] != a[2] {
+		t.Errorf("grid %v, times %v", g, a)
+	}
+	if err := RenderPhaseAlongGrid(g, 0, 0, &w, c, tr); err == nil {
+		t.Error("zero grid step accepted")
+	}
 	nan := func(float64) [3]float64 { return [3]float64{math.NaN(), 0, 0} }
 	if err := RenderPhaseAlong(make([]float64, 3), times, &w, c, nan); err == nil {
 		t.Error("NaN trajectory accepted")

@@ -34,6 +34,16 @@ func FuzzCross(f *testing.F) {
 		}
 		_ = c.PhaseAt(c.TCross)
 		_ = c.MeanFrequency(c.TCross-1, c.TCross+1)
+		if c.Tau < 1e5 {
+			x := make([]float64, 8)
+			if err := RenderPhaseAlongGrid(x, c.TCross-4*c.Tau, c.Tau, &w, c, tr); err == nil {
+				for _, v := range x {
+					if math.IsNaN(v) {
+						t.Fatalf("along-trajectory phase NaN for %+v", c)
+					}
+				}
+			}
+		}
 	})
 }
 
