@@ -170,3 +170,30 @@ func (g *Geometry) Check(start Time, span, step float64) error {
 	}
 	return nil
 }
+
+// EarthFixedState returns the Earth-fixed position (m) and velocity (m/s)
+// of clock i at t (a station's velocity is zero).
+func (g *Geometry) EarthFixedState(i int, t Time) (pos, vel [3]float64, err error) {
+	if i < 0 || i >= len(g.ids) {
+		return nanVec, nanVec, fmt.Errorf("orbits: geometry: clock index %d outside [0, %d)", i, len(g.ids))
+	}
+	if i < len(g.orbits) {
+		pos, vel, err = g.orbits[i].PosVel(t)
+		if err != nil {
+			return nanVec, nanVec, err
+		}
+		return pos, vel, nil
+	}
+	return g.stations[i-len(g.orbits)].Pos, [3]float64{}, nil
+}
+
+// CelestialState returns the celestial position (m) and velocity (m/s,
+// including the Earth-rotation term) of clock i at t.
+func (g *Geometry) CelestialState(i int, t Time) (pos, vel [3]float64, err error) {
+	p, v, err := g.EarthFixedState(i, t)
+	if err != nil {
+		return p, v, err
+	}
+	pos, vel = g.frame.ToCelestialVel(t, p, v)
+	return pos, vel, nil
+}

@@ -36,6 +36,19 @@ func TestGeometry(t *testing.T) {
 			t.Errorf("clock %s: |cel| %.6f, |ef| %.6f", ids[i], norm(c), norm(ef))
 		}
 	}
+	// Celestial velocity = finite difference of celestial positions (identity).
+	for _, i := range []int{0, 24} {
+		_, v, err := g.CelestialState(i, tm)
+		if err != nil {
+			t.Fatal(err)
+		}
+		p1, p2 := g.Celestial(i, tm.Add(-0.5)), g.Celestial(i, tm.Add(0.5))
+		for k := range 3 {
+			if math.Abs(p2[k]-p1[k]-v[k]) > 1e-3 {
+				t.Errorf("clock %s: celestial v[%d] = %.6f m/s, finite difference %.6f", ids[i], k, v[k], p2[k]-p1[k])
+			}
+		}
+	}
 	if s, ok := g.Station(24); !ok || !s.Reference {
 		t.Error("station lookup")
 	}
