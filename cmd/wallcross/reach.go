@@ -91,13 +91,13 @@ space ("1yr", "30 d").`,
 			}
 			fmt.Fprintf(stdout, "exclusion at %g %% CL, zero candidates: ε_low·T_obs/T ≥ %.4g, T_obs = %g s\n", *cl*100, score.PoissonZeroFactor(*cl), opt.Span)
 			fmt.Fprintf(stdout, "efficiency = Clopper–Pearson lower bound (%g %% two-sided) per cell\n", score.EfficiencyCL*100)
-			fmt.Fprintf(stdout, "%14s %12s %14s %10s  %s\n", "T_s", "d_m", "lambda_gev", "eps_req", "status")
+			fmt.Fprintf(stdout, "%14s %10s %12s %14s %10s  %s\n", "T_s", "T_yr", "d_m", "lambda_gev", "eps_req", "status")
 			for _, p := range pts {
 				l := "-"
 				if !math.IsNaN(p.Lambda) {
 					l = fmt.Sprintf("%.4g", p.Lambda)
 				}
-				fmt.Fprintf(stdout, "%14.6g %12.4g %14s %10.4g  %s\n", p.MeanInterval, p.Thickness, l, p.EpsRequired, p.Status)
+				fmt.Fprintf(stdout, "%14.6g %10.4g %12.4g %14s %10.4g  %s\n", p.MeanInterval, p.MeanInterval/scenarios.JulianYear, p.Thickness, l, p.EpsRequired, p.Status)
 			}
 			if *out != "" {
 				if err := os.MkdirAll(*out, 0o755); err != nil {

@@ -1,10 +1,13 @@
 package main
 
 import (
+	"fmt"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"wallcross/sim/score"
 )
 
 // The hand-made dataset of sim/score (one day, 4 clocks, 8 walls).
@@ -83,5 +86,39 @@ func TestScoreBadCandidates(t *testing.T) {
 	// Missing dataset.
 	if code, _, errOut := runCLI(t, "score", filepath.Join(dir, "none"), scoreCands); code != exitFailure || !strings.Contains(errOut, "events.csv") {
 		t.Errorf("exit %d, stderr %q", code, errOut)
+	}
+}
+
+// TestScoreSimulated scores a candidate list against the simulator's
+// check-single-wall dataset: one candidate 10 s after the true t0 with the
+// true direction, and one far away.
+func TestScoreSimulated(t *testing.T) {
+	ds := filepath.Join(t.TempDir(), "ds")
+	if code, _, errOut := runCLI(t, "simulate", "check-single-wall", "--out", ds, "--seed", "3"); code != exitOK {
+		t.Fatalf("simulate: exit %d: %s", code, errOut)
+	}
+	tr, err := score.ReadTruth(ds)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(tr.Events) != 1 || tr.RMax < 2.6e7 || tr.RMax > 3e7 {
+		t.Fatalf("truth: %d events, R_max %g m", len(tr.Events), tr.RMax)
+	}
+	e := tr.Events[0]
+	cands := filepath.Join(t.TempDir(), "c.csv")
+	content := fmt.Sprintf("t0_s,stat,nx,ny,nz\n%g,9,%g,%g,%g\n%g,2,1,0,0\n", e.T0+10, e.N[0], e.N[1], e.N[2], e.T0+2000)
+	if err := os.WriteFile(cands, []byte(content), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out := t.TempDir()
+	code, stdout, errOut := runCLI(t, "score", ds, cands, "--direction-tol", "5", "--out", out)
+	if code != exitOK {
+		t.Fatalf("score: exit %d: %s", code, errOut)
+	}
+	if !strings.Contains(stdout, "found / missed    1 / 0") || !strings.Contains(stdout, "1 false alarms") {
+		t.Errorf("stdout:\n%s", stdout)
+	}
+	if code, stdout, errOut = runCLI(t, "reach", filepath.Join(out, "efficiency.csv"), "--mean-interval", "1 yr", "--span", "10yr"); code != exitOK || !strings.Contains(stdout, "no_limit") {
+		t.Errorf("reach: exit %d\n%s\n%s", code, stdout, errOut)
 	}
 }

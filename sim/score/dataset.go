@@ -40,7 +40,7 @@ type Truth struct {
 	// t_s), s; 0 with a single epoch.
 	Interval float64
 	// RMax is the largest geocentric clock radius found, m, and RMaxSource
-	// says where it came from.
+	// names the file that gave it.
 	RMax       float64
 	RMaxSource string
 	// runs[j] lists, per clock, the maximal runs [t_a, t_b] of epochs with data.
@@ -295,14 +295,17 @@ func (tr *Truth) InGap(t, halfWindow float64) bool {
 // the position records of orbits.sp3 (km) and the crossing lags
 // |t_cross − t0|·v, which bound the projection n·r of the clocks crossed.
 func (tr *Truth) findRMax(dir string) error {
-	var src []string
+	consider := func(r float64, src string) {
+		if r > tr.RMax {
+			tr.RMax, tr.RMaxSource = r, src
+		}
+	}
 	t, err := openTable(filepath.Join(dir, "stations.csv"), "x_m", "y_m", "z_m")
 	switch {
 	case errors.Is(err, fs.ErrNotExist):
 	case err != nil:
 		return err
 	default:
-		r := 0.0
 		for i := range t.rows {
 			var x [3]float64
 			for j, c := range []string{"x_m", "y_m", "z_m"} {
@@ -310,37 +313,28 @@ func (tr *Truth) findRMax(dir string) error {
 					return err
 				}
 			}
-			r = math.Max(r, math.Sqrt(x[0]*x[0]+x[1]*x[1]+x[2]*x[2]))
-		}
-		if r > tr.RMax {
-			tr.RMax = r
-		}
-		if r > 0 {
-			src = append(src, "stations.csv")
+			consider(math.Sqrt(x[0]*x[0]+x[1]*x[1]+x[2]*x[2]), "stations.csv")
 		}
 	}
-	r, err := sp3MaxRadius(filepath.Join(dir, "orbits.sp3"))
+	f, err := os.Open(filepath.Join(dir, "orbits.sp3"))
 	switch {
 	case errors.Is(err, fs.ErrNotExist):
 	case err != nil:
-		return err
-	case r > 0:
-		tr.RMax = math.Max(tr.RMax, r)
-		src = append(src, "orbits.sp3")
+		return fmt.Errorf("score: could not open orbits.sp3: %w", err)
+	default:
+		r, err := sp3MaxRadius(f, "orbits.sp3")
+		f.Close()
+		if err != nil {
+			return err
+		}
+		consider(r, "orbits.sp3")
 	}
-	lag := 0.0
 	for _, e := range tr.Events {
-		lag = math.Max(lag, e.MaxLag*e.Speed)
-	}
-	if lag > 0 {
-		tr.RMax = math.Max(tr.RMax, lag)
-		src = append(src, "crossings.csv")
+		consider(e.MaxLag*e.Speed, "crossings.csv (lag × speed)")
 	}
 	if tr.RMax == 0 {
-		tr.RMax = fallbackRMax
-		src = append(src, "fallback (geostationary radius)")
+		tr.RMax, tr.RMaxSource = fallbackRMax, "fallback (geostationary radius)"
 	}
-	tr.RMaxSource = strings.Join(src, ", ")
 	return nil
 }
 
@@ -348,15 +342,10 @@ func (tr *Truth) findRMax(dir string) error {
 // position records of an SP3-c/d file: lines starting with 'P', satellite
 // id in columns 2–4, x, y, z in km in columns 5–46 (F14.6 each). A
 // coordinate of 0 marks a bad or missing position (SP3 convention).
-func sp3MaxRadius(path string) (float64, error) {
-	f, err := os.Open(path)
-	if err != nil {
-		return 0, err
-	}
-	defer f.Close()
-	sc := bufio.NewScanner(f)
+func sp3MaxRadius(r io.Reader, name string) (float64, error) {
+	sc := bufio.NewScanner(r)
 	sc.Buffer(make([]byte, 0, 4096), 1<<20)
-	r := 0.0
+	rmax := 0.0
 	for line := 1; sc.Scan(); line++ {
 		s := sc.Text()
 		if len(s) < 4 || s[0] != 'P' {
@@ -364,23 +353,23 @@ func sp3MaxRadius(path string) (float64, error) {
 		}
 		fields := strings.Fields(s[4:])
 		if len(fields) < 3 {
-			return 0, fmt.Errorf("score: %s:%d: position record has %d fields, want x y z", filepath.Base(path), line, len(fields))
+			return 0, fmt.Errorf("score: %s:%d: position record has %d fields, want x y z", name, line, len(fields))
 		}
 		var x [3]float64
 		for j := range x {
 			v, err := strconv.ParseFloat(fields[j], 64)
 			if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
-				return 0, fmt.Errorf("score: %s:%d: bad coordinate %q km", filepath.Base(path), line, fields[j])
+				return 0, fmt.Errorf("score: %s:%d: bad coordinate %q km", name, line, fields[j])
 			}
 			x[j] = v * 1e3
 		}
 		if x[0] == 0 && x[1] == 0 && x[2] == 0 {
 			continue
 		}
-		r = math.Max(r, math.Sqrt(x[0]*x[0]+x[1]*x[1]+x[2]*x[2]))
+		rmax = math.Max(rmax, math.Sqrt(x[0]*x[0]+x[1]*x[1]+x[2]*x[2]))
 	}
 	if err := sc.Err(); err != nil {
-		return 0, fmt.Errorf("score: %s: %w", filepath.Base(path), err)
+		return 0, fmt.Errorf("score: %s: %w", name, err)
 	}
-	return r, nil
+	return rmax, nil
 }

@@ -86,3 +86,15 @@ func truthFrom(events, crossings, clocks string) (*Truth, error) {
 	tr.RMax, tr.RMaxSource = fallbackRMax, "fallback"
 	return tr, nil
 }
+
+func FuzzSP3Radius(f *testing.F) {
+	b, _ := os.ReadFile("testdata/ds1/orbits.sp3")
+	f.Add(string(b))
+	f.Add("PG01 1 2\n")
+	f.Fuzz(func(t *testing.T, in string) {
+		r, err := sp3MaxRadius(strings.NewReader(in), "o.sp3")
+		if err == nil && (r < 0 || math.IsNaN(r)) {
+			t.Fatalf("radius %g", r)
+		}
+	})
+}

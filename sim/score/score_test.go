@@ -35,7 +35,7 @@ func TestReadTruth(t *testing.T) {
 		t.Fatalf("%d events, %d clocks; want 8, 4", len(tr.Events), len(tr.Clocks))
 	}
 	// orbits.sp3: PG01 at 26 560 km is the largest radius.
-	if !scalar.EqualWithinRel(tr.RMax, 26560e3, 1e-12) {
+	if !scalar.EqualWithinRel(tr.RMax, 26560e3, 1e-12) || tr.RMaxSource != "orbits.sp3" {
 		t.Errorf("RMax = %g m, want 2.656e7 (from %s)", tr.RMax, tr.RMaxSource)
 	}
 	if tr.Span() != 86400 || tr.Interval != 300 {
