@@ -105,3 +105,23 @@ func BenchmarkSample(b *testing.B) {
 	}
 	b.ReportMetric(float64(walls)/b.Elapsed().Seconds(), "walls/s")
 }
+
+// BenchmarkRenderAlong: along-trajectory rendering of a thick wall
+// (d = 1e9 m, τ ≈ 1 h) on a GPS orbit over a day of 30-s epochs.
+func BenchmarkRenderAlong(b *testing.B) {
+	tr := circularOrbit(26.56e6, 55*math.Pi/180, 0.4, 1.1)
+	w := effWall([3]float64{0.2, -0.5, 0.84}, 3e5, 1e9, 43200, 1e9, 1e11, ProfileGaussian)
+	c, err := w.Cross("G", "rb", tr)
+	if err != nil {
+		b.Fatal(err)
+	}
+	const n = 2880
+	dst := make([]float64, n)
+	for b.Loop() {
+		if err := RenderPhaseAlongGrid(dst, 0, 30, &w, c, tr); err != nil {
+			b.Fatal(err)
+		}
+	}
+	b.ReportMetric(float64(n)*float64(b.N)/b.Elapsed().Seconds(), "samples/s")
+	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/(float64(n)*float64(b.N)), "ns/sample")
+}
