@@ -364,3 +364,26 @@ func TestHaloSpeedDistribution(t *testing.T) {
 	}
 	t.Logf("closed-form mean %.2f km/s, sampled %.2f km/s, KS %.4f", mean/1e3, sum/n/1e3, ks)
 }
+
+// MeanRelativeSpeed against physics.md §4 (330 and 379 km/s, Monte Carlo
+// figures there) and, untruncated, against the closed-form shifted-Maxwell mean.
+func TestMeanRelativeSpeed(t *testing.T) {
+	h := StandardHalo()
+	if got := h.MeanRelativeSpeed(false); !scalar.EqualWithinAbs(got/1e3, 330, 0.5) {
+		t.Errorf("mean %.2f km/s, physics.md 330", got/1e3)
+	}
+	if got := h.MeanRelativeSpeed(true); !scalar.EqualWithinAbs(got/1e3, 379, 1) {
+		t.Errorf("flux-weighted mean %.2f km/s, physics.md 379", got/1e3)
+	}
+	h.VEsc = 0
+	want := meanShiftedMaxwell(vnorm(h.SunVelocity()), h.V0/math.Sqrt2)
+	if got := h.MeanRelativeSpeed(false); !scalar.EqualWithinRel(got, want, 1e-9) {
+		t.Errorf("untruncated mean %.6g m/s, closed form %.6g", got, want)
+	}
+	// E|v|² = 3σ² + vE², so the flux-weighted mean is (3σ² + vE²)/E|v|.
+	s2 := h.V0 * h.V0 / 2
+	vE := vnorm(h.SunVelocity())
+	if got := h.MeanRelativeSpeed(true); !scalar.EqualWithinRel(got, (3*s2+vE*vE)/want, 1e-9) {
+		t.Errorf("untruncated flux-weighted mean %.6g m/s, want %.6g", got, (3*s2+vE*vE)/want)
+	}
+}
