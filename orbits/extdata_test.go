@@ -69,6 +69,7 @@ func TestReadAllNavVersions(t *testing.T) {
 }
 
 func TestBroadcastAgainstPrecise(t *testing.T) {
+	navs, sp3s := map[string]*Nav{}, map[string]*SP3{} // each file read once
 	for _, c := range []struct {
 		name, nav, sp3 string
 		sys            byte
@@ -93,8 +94,13 @@ func TestBroadcastAgainstPrecise(t *testing.T) {
 		{"set B 3.05 Galileo", "set_B_2023-073_multi/BRDC00WRD_S_20230730000_01D_MN.rnx", "set_B_2023-073_multi/COD0OPSRAP_20230730000_01D_05M_ORB.SP3", 'E', SelectOptions{}, 1.2},
 		{"set B 3.05 GLONASS", "set_B_2023-073_multi/BRDC00WRD_S_20230730000_01D_MN.rnx", "set_B_2023-073_multi/COD0OPSRAP_20230730000_01D_05M_ORB.SP3", 'R', SelectOptions{}, 4.0},
 	} {
-		n := readNavT(t, c.nav)
-		p := readSP3T(t, c.sp3)
+		if navs[c.nav] == nil {
+			navs[c.nav] = readNavT(t, c.nav)
+		}
+		if sp3s[c.sp3] == nil {
+			sp3s[c.sp3] = readSP3T(t, c.sp3)
+		}
+		n, p := navs[c.nav], sp3s[c.sp3]
 		res, err := Compare(n, p, CompareOptions{Systems: string(c.sys), Select: c.opts})
 		if err != nil {
 			t.Fatal(err)
