@@ -18,7 +18,7 @@ func newReachCmd() *command {
 	injected := fs.String("injected-interval", "", "mean interval `T` the table's injections were made with (default: the single --mean-interval)")
 	cl := fs.Float64("cl", 0.9, "confidence level of the exclusion")
 	out := fs.String("out", "", "write reach.csv and reach.png to `DIR`")
-	plotName := fs.String("plot", "reach.png", "plot file name in DIR (.png or .svg)")
+	plotName := fs.String("plot", "reach.png", "plot `FILE` name in DIR (.png or .svg)")
 	return &command{
 		Name:  "reach",
 		Usage: "reach EFFICIENCY.csv --mean-interval T[,T...] --span T_obs [--cl 0.9] [--injected-interval T] [--out DIR]",

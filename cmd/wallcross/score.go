@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"strconv"
+	"strings"
 
 	"wallcross/sim/score"
 )
@@ -11,7 +13,7 @@ import (
 func newScoreCmd() *command {
 	fs := newFlagSet("score")
 	window := fs.Float64("window", 0, "full matching window `S` in seconds (default 2·R_max/v_min of the dataset)")
-	threshold := fs.Float64("threshold", math.NaN(), "only candidates with stat ≥ `X` count (default: all)")
+	threshold := fs.String("threshold", "", "only candidates with stat ≥ `X` count (default: all)")
 	dirTol := fs.Float64("direction-tol", 0, "largest angle `DEG` between candidate and true direction (default: no direction test)")
 	out := fs.String("out", "", "write summary.json, matches.csv, efficiency.csv, roc.csv and plots to `DIR`")
 	return &command{
@@ -60,12 +62,13 @@ injection's largest per-clock bias step).`,
 			if *dirTol < 0 || *dirTol > 180 || math.IsNaN(*dirTol) {
 				return usageErrorf("--direction-tol %g° must be in [0, 180]", *dirTol)
 			}
-			if fs.Changed("threshold") && (math.IsNaN(*threshold) || math.IsInf(*threshold, 0)) {
-				return usageErrorf("--threshold %g must be a finite number", *threshold)
-			}
 			opt := score.Options{Window: *window, DirectionTol: *dirTol * math.Pi / 180}
 			if fs.Changed("threshold") {
-				opt.Threshold, opt.HasThreshold = *threshold, true
+				v, err := strconv.ParseFloat(strings.TrimSpace(*threshold), 64)
+				if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
+					return usageErrorf("--threshold %q must be a finite number", *threshold)
+				}
+				opt.Threshold, opt.HasThreshold = v, true
 			}
 			tr, err := score.ReadTruth(args[0])
 			if err != nil {

@@ -52,6 +52,7 @@ func TestScoreUsage(t *testing.T) {
 		{"score", scoreDS, scoreCands, "--window", "abc"},
 		{"score", scoreDS, scoreCands, "--direction-tol", "200"},
 		{"score", scoreDS, scoreCands, "--threshold", "NaN"},
+		{"score", scoreDS, scoreCands, "--threshold", "abc"},
 		{"score", scoreDS, scoreCands, "--no-such-flag"},
 	} {
 		if code, _, errOut := runCLI(t, args...); code != exitUsage {
