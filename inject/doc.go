@@ -135,7 +135,11 @@
 //	walls, err := pop.Sample(rng)               // truth: walls[i].Event()
 //	for each wall w, for each clock j:
 //	    c, err := w.Cross(id_j, family_j, traj_j) // truth: c.Record()
-//	    err = inject.RenderPhase(bias_j, times, c) // adds Δx_j(t) [s]
+//	    if c.LinearError() > 1e-4 {               // crossing lasts a good part of an orbit
+//	        err = inject.RenderPhaseAlong(bias_j, times, &w, c, traj_j)
+//	    } else {
+//	        err = inject.RenderPhase(bias_j, times, c) // adds Δx_j(t) [s]
+//	    }
 //
 // crossings.csv's step_s is Crossing.Step (NaN for the linear kink, whose
 // bias ramps instead of stepping); events.csv's lambda_eff_gev and peak_dnu
