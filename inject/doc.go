@@ -135,7 +135,7 @@
 //	walls, err := pop.Sample(rng)               // truth: walls[i].Event()
 //	for each wall w, for each clock j:
 //	    c, err := w.Cross(id_j, family_j, traj_j) // truth: c.Record()
-//	    if c.LinearError() > 1e-4 {               // crossing lasts a good part of an orbit
+//	    if c.LinearError() > 1e-2 {               // crossing lasts a good part of an orbit
 //	        err = inject.RenderPhaseAlong(bias_j, times, &w, c, traj_j)
 //	    } else {
 //	        err = inject.RenderPhase(bias_j, times, c) // adds Δx_j(t) [s]
