@@ -31,6 +31,9 @@ func ReadManifest(dir string) (*Manifest, error) {
 	if m.Format != ManifestFormat {
 		return nil, fmt.Errorf("sim: %s: format %q, want %q", path, m.Format, ManifestFormat)
 	}
+	if m.Epochs <= 0 || len(m.Clocks) == 0 || !(m.IntervalS > 0) {
+		return nil, fmt.Errorf("sim: %s: %d epochs of %g s and %d clocks, want at least one of each", path, m.Epochs, m.IntervalS, len(m.Clocks))
+	}
 	if m.TimeSystem != "GPS" {
 		return nil, fmt.Errorf("sim: %s: time system %q, want GPS", path, m.TimeSystem)
 	}
@@ -191,7 +194,7 @@ func readClocksCSV(path string, d *Dataset) ([]float64, error) {
 	for _, c := range d.Clocks {
 		ids = append(ids, c.ID)
 	}
-	bias := make([]float64, 0, d.Epochs*nc)
+	bias := make([]float64, 0, min(d.Epochs*nc, 1<<24)) // grows with the file, not with the manifest's claim
 	k := 0
 	err := csvRows(path, strings.Join(ids, ","), func(line int, cells []string) error {
 		if len(cells) != nc+1 {

@@ -204,6 +204,13 @@ func TestReadDatasetDetectsChanges(t *testing.T) {
 	if _, err := ReadDataset(dir); err == nil || !strings.Contains(err.Error(), "time system") {
 		t.Errorf("UTC manifest: error %v", err)
 	}
+	m["time_system"] = "GPS"
+	m["epochs"] = -3
+	mb, _ = json.Marshal(m)
+	os.WriteFile(mp, mb, 0o644)
+	if _, err := ReadDataset(dir); err == nil || !strings.Contains(err.Error(), "-3 epochs") {
+		t.Errorf("negative epochs: error %v", err)
+	}
 }
 
 func TestValidate(t *testing.T) {
