@@ -1,6 +1,7 @@
 package score
 
 import (
+	"encoding/json"
 	"fmt"
 	"math"
 
@@ -13,9 +14,44 @@ import (
 // Clopper–Pearson lower bound used by Reach.
 const EfficiencyCL = 0.95
 
-// An Interval is a closed range [Low, High] of a proportion (dimensionless).
+// An Interval is a closed range [Low, High], e.g. of a proportion
+// (dimensionless). In JSON it is {"low": x, "high": y}; a non-finite end
+// (an unbounded profile interval) is written as null and read back as NaN.
 type Interval struct {
 	Low, High float64
+}
+
+type intervalJSON struct {
+	Low  *float64 `json:"low"`
+	High *float64 `json:"high"`
+}
+
+func finitePtr(v float64) *float64 {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return nil
+	}
+	return &v
+}
+
+// MarshalJSON writes {"low": Low, "high": High} with null for NaN or ±Inf.
+func (iv Interval) MarshalJSON() ([]byte, error) {
+	return json.Marshal(intervalJSON{finitePtr(iv.Low), finitePtr(iv.High)})
+}
+
+// UnmarshalJSON reads {"low": x, "high": y}; null or absent gives NaN.
+func (iv *Interval) UnmarshalJSON(b []byte) error {
+	var j intervalJSON
+	if err := json.Unmarshal(b, &j); err != nil {
+		return fmt.Errorf("score: interval: %w", err)
+	}
+	iv.Low, iv.High = math.NaN(), math.NaN()
+	if j.Low != nil {
+		iv.Low = *j.Low
+	}
+	if j.High != nil {
+		iv.High = *j.High
+	}
+	return nil
 }
 
 func checkBinomial(k, n int, cl float64) error {

@@ -2,6 +2,7 @@ package score
 
 import (
 	"encoding/csv"
+	"encoding/json"
 	"fmt"
 	"math"
 	"os"
@@ -175,4 +176,21 @@ func ExampleWilson() {
 func ExamplePoissonZeroFactor() {
 	fmt.Printf("90 %%: %.3f expected crossings, 95 %%: %.3f\n", PoissonZeroFactor(0.90), PoissonZeroFactor(0.95))
 	// Output: 90 %: 2.303 expected crossings, 95 %: 2.996
+}
+
+func TestIntervalJSON(t *testing.T) {
+	b, err := json.Marshal(struct{ A, B Interval }{Interval{0.25, 1}, Interval{0, math.Inf(1)}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if string(b) != `{"A":{"low":0.25,"high":1},"B":{"low":0,"high":null}}` {
+		t.Errorf("json %s", b)
+	}
+	var back struct{ A, B Interval }
+	if err := json.Unmarshal(b, &back); err != nil {
+		t.Fatal(err)
+	}
+	if back.A != (Interval{0.25, 1}) || back.B.Low != 0 || !math.IsNaN(back.B.High) {
+		t.Errorf("read back %+v", back)
+	}
 }
