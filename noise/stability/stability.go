@@ -93,9 +93,9 @@ func Compute(s Stat, x []float64, tau0 float64, m []int, opt *Options) ([]Result
 
 // ComputeMany evaluates several statistics of one phase series, statistic
 // stats[i] at the averaging factors grid(stats[i]), and returns the results
-// in the order of stats (see Compute). For gap-free data, when two or more
-// of OAVAR, MVAR (MDEV/TDEV) and OHVAR are wanted at the same m, they share
-// one pass over x.
+// in the order of stats (see Compute). For gap-free data, MVAR (MDEV/TDEV),
+// and OAVAR and OHVAR when two of the three are wanted at the same m, come
+// from one shared pass over x.
 func ComputeMany(stats []Stat, x []float64, tau0 float64, grid func(Stat) []int, opt *Options) ([][]Result, error) {
 	for _, s := range stats {
 		if _, err := ParseStat(string(s)); err != nil {
@@ -162,8 +162,17 @@ func ComputeMany(stats []Stat, x []float64, tau0 float64, grid func(Stat) []int,
 				want[mi]++
 			}
 		}
+		mvarWanted := map[int]bool{}
+		for i, s := range stats {
+			if s == StatMDEV || s == StatTDEV {
+				for _, mi := range grids[i] {
+					mvarWanted[mi] = true
+				}
+			}
+		}
 		for _, mi := range all {
-			if want[mi] >= 2 && len(x)-3*mi > 0 {
+			// the shared pass is also the fastest MVAR on its own
+			if (want[mi] >= 2 || mvarWanted[mi]) && len(x)-3*mi > 0 {
 				a, mv, h := fusedPass(x, mi)
 				tau := float64(mi) * tau0
 				fm := float64(mi)
