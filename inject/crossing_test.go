@@ -266,3 +266,37 @@ func TestCrossingPartialCoverage(t *testing.T) {
 		t.Error("trajectory without coverage accepted")
 	}
 }
+
+// Sweep durations 2a/v at 300 km/s for the other constellations of
+// physics.md §3.5 (orbit radii from memory there): a dense shell of
+// satellites on circular orbits is swept in just under 2a/v.
+func TestSweepTable(t *testing.T) {
+	rng := rand.New(rand.NewPCG(59, 61))
+	for _, tc := range []struct {
+		system string
+		a      float64 // m
+		sweep  float64 // s, physics.md §3.5
+	}{
+		{"GLONASS", 25.51e6, 170},
+		{"BeiDou MEO", 27.906e6, 186},
+		{"Galileo", 29.6e6, 197},
+		{"BeiDou GEO/IGSO", 42.164e6, 281},
+	} {
+		w := effWall(randomUnit(rng), 3e5, 1e7, 0, 1e9, 1e12, ProfileGaussian)
+		first, last := math.Inf(1), math.Inf(-1)
+		for i := range 200 {
+			tr := circularOrbit(tc.a, math.Acos(2*rng.Float64()-1), 2*math.Pi*rng.Float64(), 2*math.Pi*float64(i)/200)
+			c, err := w.Cross("S", "galileo-phm", tr)
+			if err != nil {
+				t.Fatal(err)
+			}
+			first, last = math.Min(first, c.TCross), math.Max(last, c.TCross)
+		}
+		if got := last - first; got > 2*tc.a/3e5+1e-6 || got < 0.9*tc.sweep {
+			t.Errorf("%s: sweep %.1f s, want just under %.0f s", tc.system, got, tc.sweep)
+		}
+		if !scalar.EqualWithinAbs(2*tc.a/3e5, tc.sweep, 0.5) {
+			t.Errorf("%s: 2a/v = %.1f s, physics.md %g s", tc.system, 2*tc.a/3e5, tc.sweep)
+		}
+	}
+}
