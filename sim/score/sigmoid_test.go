@@ -2,9 +2,14 @@ package score
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"math/rand/v2"
+	"os"
+	"strings"
 	"testing"
+
+	"gonum.org/v1/gonum/floats/scalar"
 )
 
 // drawCurve draws binomial counts from the sigmoid (mu, w) at levels
@@ -100,5 +105,44 @@ func TestFitSigmoidUnresolved(t *testing.T) {
 	}
 	if _, err := FitSigmoid([]BinPoint{{1, 10, 11}, {2, 10, 5}}, 0.9); err == nil {
 		t.Error("found > n accepted")
+	}
+}
+
+// TestFitSigmoidReference compares the fit and its 68.27 % profile
+// intervals with testdata/sigmoid_ref.txt, made by testdata/sigmoid_ref.py
+// (nested golden-section searches in plain Python, no gonum).
+func TestFitSigmoidReference(t *testing.T) {
+	b, err := os.ReadFile("testdata/sigmoid_ref.txt")
+	if err != nil {
+		t.Fatal(err)
+	}
+	ref := map[string]float64{}
+	for _, line := range strings.Split(strings.TrimSpace(string(b)), "\n") {
+		var k string
+		var v float64
+		if _, err := fmt.Sscan(line, &k, &v); err != nil {
+			t.Fatal(err)
+		}
+		ref[k] = v
+	}
+	var pts []BinPoint
+	for i, k := range []int{2, 6, 17, 31, 44, 49} { // the data of sigmoid_ref.py
+		pts = append(pts, BinPoint{S: math.Pow(10, -11.2+0.2*float64(i)), N: 50, Found: k})
+	}
+	g, err := FitSigmoid(pts, 0.6827)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		name     string
+		got, tol float64
+	}{
+		{"mu", g.Mu, 1e-7}, {"w", g.W, 1e-5},
+		{"h50", g.H50, 1e-6}, {"h50_low", g.H50Int.Low, 1e-5}, {"h50_high", g.H50Int.High, 1e-5},
+		{"h90", g.H90, 1e-5}, {"h90_low", g.H90Int.Low, 1e-5}, {"h90_high", g.H90Int.High, 1e-5},
+	} {
+		if !scalar.EqualWithinRel(c.got, ref[c.name], c.tol) {
+			t.Errorf("%s = %.10g, reference %.10g (rel tol %g)", c.name, c.got, ref[c.name], c.tol)
+		}
 	}
 }

@@ -12,7 +12,7 @@ from statistics import NormalDist
 
 CASES = [(0, 10), (5, 10), (10, 10), (95, 100), (81, 263), (15, 148),
          (0, 20), (1, 29), (1, 10), (3, 50), (49, 50)]
-CL = 0.95
+CLS = [0.95, 0.9, 0.6827]
 
 
 def tail_ge(k, n, p):
@@ -50,7 +50,8 @@ def wilson(k, n, cl):
 
 
 print("k,n,cl,wilson_low,wilson_high,cp_low,cp_high")
-for k, n in CASES:
-    wl, wh = wilson(k, n, CL)
-    cl_, ch = cp(k, n, CL)
-    print(f"{k},{n},{CL},{wl:.12f},{wh:.12f},{cl_:.12f},{ch:.12f}")
+for CL in CLS:
+    for k, n in CASES:
+        wl, wh = wilson(k, n, CL)
+        cl_, ch = cp(k, n, CL)
+        print(f"{k},{n},{CL},{wl:.12f},{wh:.12f},{cl_:.12f},{ch:.12f}")
