@@ -235,3 +235,28 @@ func TestValidate(t *testing.T) {
 		}
 	}
 }
+
+// FuzzReadCSV feeds arbitrary bytes to the dataset's CSV readers: they
+// return an error or a table, never panic.
+func FuzzReadCSV(f *testing.F) {
+	f.Add([]byte("t_s,G01,E11,ALBA00XYZ,BRIO\n0,1e-9,,2,-3\n30,0,0,0,0\n"))
+	f.Add([]byte("event,t0_s,nx,ny,nz,speed_m_s,thickness_m,profile,lambda_eff_gev,peak_dnu\n0,61.5,0.6,0,-0.8,300000,10000000,gaussian,1e+12,1.25e-13\n"))
+	f.Add([]byte("event,clock,t_cross_s,step_s\n0,G01,40.25,1e-11\n"))
+	f.Add([]byte("id,x_m,y_m,z_m,lat_deg,lon_deg,h_m,clock\nA,1,2,3,4,5,6,cs\n"))
+	f.Add([]byte("kind,clock,t_s,duration_s,value\ngap,E11,60,60,0\n"))
+	f.Fuzz(func(t *testing.T, data []byte) {
+		p := filepath.Join(t.TempDir(), "x.csv")
+		if err := os.WriteFile(p, data, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		d := testDataset(t)
+		d.Epochs = 2
+		if b, err := readClocksCSV(p, d); err == nil && len(b) != 2*len(d.Clocks) {
+			t.Fatalf("clocks.csv read %d values without error", len(b))
+		}
+		for _, read := range []func(string, *Dataset) error{readEvents, readCrossings, readStations, readNuisances} {
+			e := &Dataset{}
+			_ = read(p, e)
+		}
+	})
+}
