@@ -1,6 +1,7 @@
 package score
 
 import (
+	"fmt"
 	"math"
 	"os"
 	"path/filepath"
@@ -118,4 +119,16 @@ func TestWriteReach(t *testing.T) {
 	if !strings.Contains(lines[1], ",no_limit,") || !strings.Contains(lines[2], ",limit,") || !strings.Contains(lines[2], "clopper_pearson_lower") {
 		t.Errorf("reach.csv:\n%s", b)
 	}
+}
+
+func ExampleReach() {
+	// 100 of 100 walls of d = 1000 km found at Λ_eff = 1e12 GeV, none at 1e13.
+	a, _ := NewEffRow(1e6, 3e5, 1e12, math.NaN(), 100, 100)
+	b, _ := NewEffRow(1e6, 3e5, 1e13, math.NaN(), 100, 0)
+	pts, _ := Reach([]EffRow{a, b}, ReachOptions{MeanIntervals: []float64{yr}, Span: 10 * yr, CL: 0.9})
+	for _, p := range pts {
+		fmt.Printf("T = %.0f yr, d = %.0f km: Λ_eff < %.3g GeV excluded at 90 %% (needs ε ≥ %.3f)\n",
+			p.MeanInterval/yr, p.Thickness/1e3, p.Lambda, p.EpsRequired)
+	}
+	// Output: T = 1 yr, d = 1000 km: Λ_eff < 5.77e+12 GeV excluded at 90 % (needs ε ≥ 0.230)
 }

@@ -146,3 +146,13 @@ func TestFitSigmoidReference(t *testing.T) {
 		}
 	}
 }
+
+func ExampleFitSigmoid() {
+	var pts []BinPoint
+	for i, k := range []int{2, 6, 17, 31, 44, 49} { // found of 50 at steps 10^-11.2 … 10^-10.2 s
+		pts = append(pts, BinPoint{S: math.Pow(10, -11.2+0.2*float64(i)), N: 50, Found: k})
+	}
+	g, _ := FitSigmoid(pts, 0.6827)
+	fmt.Printf("h50 = %.3g s [%.3g, %.3g], h90 = %.3g s, width %.3f decades\n", g.H50, g.H50Int.Low, g.H50Int.High, g.H90, g.W)
+	// Output: h50 = 2.01e-11 s [1.9e-11, 2.13e-11], h90 = 4.3e-11 s, width 0.150 decades
+}
