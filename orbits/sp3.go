@@ -591,7 +591,8 @@ func WriteSP3(w io.Writer, s *SP3) error {
 
 func checkF146(id SatID, t Time, v ...float64) error {
 	for _, x := range v {
-		if math.IsNaN(x) || math.IsInf(x, 0) || math.Abs(x) > 9999999.999999 {
+		// F14.6 holds 7 integer digits for positive and 6 for negative values.
+		if math.IsNaN(x) || x >= 9999999.9999995 || x <= -999999.9999995 {
 			return fmt.Errorf("orbits: sp3: %s at %v: value %g does not fit F14.6", id, t, x)
 		}
 	}
