@@ -1,0 +1,6 @@
+//go:build race
+
+package overlay
+
+// raceEnabled: the race detector slows the search ~10×; tests shrink their bank.
+const raceEnabled = true
