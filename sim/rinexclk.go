@@ -9,6 +9,7 @@ import (
 	"io"
 	"math"
 	"os"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
@@ -695,4 +696,52 @@ func boolList(b ...bool) []bool {
 		}
 	}
 	return out
+}
+
+// Matrix arranges the bias records (value 1) of the given record types
+// ("AS", "AR"; all types when none are given) as a row-major matrix
+// [epochs × clocks], NaN where a clock has no record at an epoch. Epochs
+// are the distinct record epochs in increasing order; clocks are in order
+// of first appearance.
+func (c *ClockFile) Matrix(types ...string) (epochs []orbits.Time, names []string, bias []float64) {
+	want := func(t string) bool {
+		if len(types) == 0 {
+			return true
+		}
+		for _, w := range types {
+			if w == t {
+				return true
+			}
+		}
+		return false
+	}
+	ei := map[orbits.Time]int{}
+	ci := map[string]int{}
+	for _, r := range c.Records {
+		if !want(r.Type) {
+			continue
+		}
+		if _, ok := ei[r.Epoch]; !ok {
+			ei[r.Epoch] = 0
+			epochs = append(epochs, r.Epoch)
+		}
+		if _, ok := ci[r.Name]; !ok {
+			ci[r.Name] = len(names)
+			names = append(names, r.Name)
+		}
+	}
+	slices.Sort(epochs)
+	for i, t := range epochs {
+		ei[t] = i
+	}
+	bias = make([]float64, len(epochs)*len(names))
+	for i := range bias {
+		bias[i] = math.NaN()
+	}
+	for _, r := range c.Records {
+		if want(r.Type) {
+			bias[ei[r.Epoch]*len(names)+ci[r.Name]] = r.Values[0]
+		}
+	}
+	return epochs, names, bias
 }

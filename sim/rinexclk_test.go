@@ -324,3 +324,45 @@ func FuzzParseRinexClock(f *testing.F) {
 		}
 	})
 }
+
+func TestClockFileMatrix(t *testing.T) {
+	p := extdata.Path(t, "set_A_2021-118_gps/COD0MGXFIN_20211180000_01D_30S_CLK.CLK")
+	cf, err := ReadRinexClock(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Set A: satellite clocks every 30 s over 19:30–20:30 GPST (121 epochs,
+	// 116 satellites in the PRN list); station clocks every 300 s
+	// (README.txt of ../shared/extdata and the file's header comment).
+	ep, names, b := cf.Matrix("AS")
+	if len(ep) != 121 || len(names) != 116 || ep[0] != orbits.FromCalendar(2021, 4, 28, 19, 30, 0) || ep[120] != orbits.FromCalendar(2021, 4, 28, 20, 30, 0) {
+		t.Errorf("AS matrix: %d epochs %v…, %d clocks", len(ep), ep[0], len(names))
+	}
+	n := 0
+	for _, v := range b {
+		if !math.IsNaN(v) {
+			n++
+		}
+	}
+	if n != 14036 {
+		t.Errorf("%d values, want the 14036 AS records", n)
+	}
+	// Station clocks (counted with cut/sort/uniq on the AR records): one
+	// station (WAB200CHE) at all 121 epochs, the other 134 at 13 epochs
+	// 300 s apart.
+	ep, names, b = cf.Matrix("AR")
+	if len(ep) != 121 || len(names) != 135 || names[0] != "WAB200CHE" {
+		t.Fatalf("AR matrix: %d epochs, %d clocks", len(ep), len(names))
+	}
+	for j := range 2 {
+		n := 0
+		for k := range ep {
+			if !math.IsNaN(b[k*len(names)+j]) {
+				n++
+			}
+		}
+		if want := []int{121, 13}[j]; n != want {
+			t.Errorf("%s: %d values, want %d", names[j], n, want)
+		}
+	}
+}
