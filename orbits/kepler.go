@@ -147,22 +147,25 @@ func (k *Kepler) ClockBias(t Time) float64 {
 // Relativistic returns Δt_r = F·e·√A·sin E_k in seconds, F = −2√μ/c²
 // (IS-GPS-200 §20.3.3.3.3.1).
 func (k *Kepler) Relativistic(t Time) float64 {
-	kk := k.ensure()
+	kk, err := k.ensure()
+	if err != nil {
+		return math.NaN()
+	}
 	tk := t.Sub(kk.Toe)
 	_, se, _ := solveKepler(kk.M0+kk.n*tk, kk.Ecc)
 	f := -2 * math.Sqrt(kk.mu) / (SpeedOfLight * SpeedOfLight)
 	return f * kk.Ecc * kk.SqrtA * se
 }
 
-func (k *Kepler) ensure() *Kepler {
+func (k *Kepler) ensure() (*Kepler, error) {
 	if k.prepared {
-		return k
+		return k, nil
 	}
 	c := *k
 	if err := c.Prepare(); err != nil {
-		c.mu, c.omegaE = MuGPS, OmegaEGPS
+		return nil, err
 	}
-	return &c
+	return &c, nil
 }
 
 // solveKepler solves M = E − e·sin E for E and returns E, sin E, cos E.
@@ -170,8 +173,8 @@ func (k *Kepler) ensure() *Kepler {
 // (IS-GPS-200 §20.3.3.4.3 gives the Newton form), updating sin and cos by
 // the angle-addition formulas with Taylor series of the step instead of new
 // library calls (our own arrangement): one Sincos per call for e ≲ 0.05,
-// |ΔE| < 1e-15 rad in 2–4 steps for e ≤ 0.2 (TestSolveKepler checks the
-// residual for e up to 0.85).
+// an error below 1e-15 rad in 2–4 steps for e ≤ 0.2 (TestSolveKepler checks
+// the residual for e up to 0.85).
 func solveKepler(m, e float64) (ea, se, ce float64) {
 	const twoPi, rTwoPi = 2 * math.Pi, 1 / (2 * math.Pi)
 	m -= twoPi * math.Floor(m*rTwoPi+0.5)
@@ -229,15 +232,23 @@ func (k *Kepler) PosVel(t Time) (pos, vel [3]float64, err error) {
 	if !k.Covers(t) {
 		return pos, vel, fmt.Errorf("orbits: %s ephemeris with toe %v does not cover %v (fit interval ±%.0f s)", k.ID, k.Toe, t, k.fitSeconds())
 	}
-	pos, vel = k.ensure().posVel(t.Sub(k.Toe))
+	kk, err := k.ensure()
+	if err != nil {
+		return pos, vel, err
+	}
+	pos, vel = kk.posVel(t.Sub(k.Toe))
 	return pos, vel, nil
 }
 
 // Pos returns the Earth-fixed position in metres at t without checking the
-// fit interval (used by the benchmark and by tight loops that checked
+// fit interval (NaN when the record is invalid) (used by the benchmark and by tight loops that checked
 // coverage already).
 func (k *Kepler) Pos(t Time) [3]float64 {
-	p, _ := k.ensure().posVel(t.Sub(k.Toe))
+	kk, err := k.ensure()
+	if err != nil {
+		return nanVec
+	}
+	p, _ := kk.posVel(t.Sub(k.Toe))
 	return p
 }
 

@@ -616,7 +616,11 @@ func halfFit(e Ephemeris) float64 {
 func propagateUnchecked(e Ephemeris, t Time) (pos, vel [3]float64, err error) {
 	switch x := e.(type) {
 	case *Kepler:
-		pos, vel = x.ensure().posVel(t.Sub(x.Toe))
+		kk, err := x.ensure()
+		if err != nil {
+			return pos, vel, err
+		}
+		pos, vel = kk.posVel(t.Sub(x.Toe))
 		return pos, vel, nil
 	case *Glonass:
 		pos, vel = x.integrate(t.Sub(x.Tb))

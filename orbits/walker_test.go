@@ -121,6 +121,11 @@ func TestKeplerVelocityIsDerivative(t *testing.T) {
 			}
 		}
 	}
+	// An unprepared record with an impossible orbit reports an error.
+	bad := Kepler{ID: "G09", Toe: ep, SqrtA: 10}
+	if _, _, err := bad.PosVel(ep); err == nil {
+		t.Error("sqrt(A) = 10 m^0.5 accepted")
+	}
 	// Fit interval: 4 h curve fit ⇒ ±2 h (IS-GPS-200 §20.3.4.4).
 	k := base
 	if _, _, err := k.PosVel(ep.Add(7201)); err == nil {
