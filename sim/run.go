@@ -768,7 +768,9 @@ func sampleSP3(geo *orbits.Geometry, sats []clockPlan, start orbits.Time, span, 
 		interval = 300
 	}
 	interval = math.Ceil(interval/step-1e-9) * step
-	n := int(math.Floor(span/interval-1e-9)) + 1
+	// Epochs 0, interval, … up to and including the end of the span, so the
+	// last data epoch lies inside the SP3 (interpolation, not extrapolation).
+	n := int(math.Ceil(span/interval-1e-9)) + 1
 	sp := &orbits.SP3{Version: 'd', Mode: 'P', Start: start, NumEpochs: n, DataUsed: "SIMUL", CoordSys: "WGS84",
 		OrbitType: "FIT", Agency: "WXS", Interval: interval, TimeSystem: "GPS", BasePos: 1.25, BaseClk: 1.025,
 		Comments: []string{fmt.Sprintf("wallcross synthetic orbits, run seed %d", seed), "no clock values: see clocks.clk"}}

@@ -195,7 +195,7 @@ walls:
 	if len(d.Clocks) != 33 || d.Clocks[0].ID != "G01" || d.Clocks[0].Family != "gps-iif-rb" {
 		t.Errorf("%d clocks, first %+v", len(d.Clocks), d.Clocks[0])
 	}
-	if len(d.Crossings) != 33 || d.Orbits == nil || len(d.Orbits.Epochs) != 36 { // 0, 300, …, 10500 s (the last data epoch is 10770 s)
+	if len(d.Crossings) != 33 || d.Orbits == nil || len(d.Orbits.Epochs) != 37 { // 0, 300, …, 10800 s (the last data epoch is 10770 s)
 		t.Errorf("%d crossings, SP3 %v", len(d.Crossings), d.Orbits != nil)
 	}
 	// Satellite positions in orbits.sp3 are at GPS orbit radius (26 560 km
