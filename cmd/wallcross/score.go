@@ -22,7 +22,8 @@ func newScoreCmd() *command {
 		Short: "score a candidate list against a dataset's injected walls",
 		Long: `Score matches a pipeline's candidate list against the walls injected in a
 dataset directory (events.csv, crossings.csv, clocks.csv, and stations.csv,
-orbits.sp3 when present) and reports found, missed and false counts,
+orbits.sp3 when present; without clocks.csv, the directory's one RINEX
+clock file, as overlay writes it, gives the data coverage) and reports found, missed and false counts,
 efficiency per grid cell (thickness, speed, Λ_eff) with Wilson and
 Clopper–Pearson intervals (95 % two-sided), false alarms per day and a ROC
 table.

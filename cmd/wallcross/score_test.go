@@ -7,6 +7,7 @@ import (
 	"strings"
 	"testing"
 
+	"wallcross/internal/extdata"
 	"wallcross/sim/score"
 )
 
@@ -121,5 +122,28 @@ func TestScoreSimulated(t *testing.T) {
 	}
 	if code, stdout, errOut = runCLI(t, "reach", filepath.Join(out, "efficiency.csv"), "--mean-interval", "1 yr", "--span", "10yr"); code != exitOK || !strings.Contains(stdout, "no_limit") {
 		t.Errorf("reach: exit %d\n%s\n%s", code, stdout, errOut)
+	}
+}
+
+// TestScoreOverlay injects one wall into a real IGS clock file with
+// overlay and scores a candidate list against the result (no clocks.csv:
+// score reads the RINEX clock file for the data coverage).
+func TestScoreOverlay(t *testing.T) {
+	clk := extdata.Path(t, "set_A_2021-118_gps/COD0MGXFIN_20211180000_01D_30S_CLK.CLK")
+	sp3 := extdata.Path(t, "set_A_2021-118_gps/COD0MGXFIN_20211180000_01D_05M_ORB.SP3")
+	ov := t.TempDir()
+	if code, _, errOut := runCLI(t, "overlay", clk, "--sp3", sp3, "--out", ov,
+		"--event", "t0=2021-04-28T20:00:00,n=0.3:-0.4:0.866,speed=300km/s,thickness=1e4km,step=1ns"); code != exitOK {
+		t.Fatalf("overlay: exit %d: %s", code, errOut)
+	}
+	cands := filepath.Join(t.TempDir(), "c.csv")
+	// The clock file starts at 19:30 GPST, so t0 = 1800 s.
+	os.WriteFile(cands, []byte("t0_s,stat\n1805,4\n3000,1\n"), 0o644)
+	code, stdout, errOut := runCLI(t, "score", ov, cands)
+	if code != exitOK {
+		t.Fatalf("score: exit %d: %s", code, errOut)
+	}
+	if !strings.Contains(stdout, "found / missed    1 / 0") || !strings.Contains(stdout, "1 false alarms") {
+		t.Errorf("stdout:\n%s", stdout)
 	}
 }

@@ -13,6 +13,9 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+
+	"wallcross/orbits"
+	"wallcross/sim"
 )
 
 // An Event is one injected wall from events.csv.
@@ -57,7 +60,11 @@ const fallbackRMax = 42164e3
 
 // ReadTruth reads events.csv, clocks.csv and, when present, crossings.csv,
 // stations.csv and orbits.sp3 from a dataset directory (DESIGN.md §5).
-// Columns are found by header name. events.csv and clocks.csv are required.
+// Columns are found by header name. events.csv is required, and so is
+// clocks.csv, except that a directory without it may hold exactly one
+// RINEX clock file instead (clocks.clk, or one *.clk / *.CLK, optionally
+// gzipped; e.g. the output of overlay), whose AS and AR records then give
+// the data coverage, in seconds after its first epoch.
 func ReadTruth(dir string) (*Truth, error) {
 	tr := &Truth{}
 	if err := tr.readEvents(filepath.Join(dir, "events.csv")); err != nil {
@@ -66,7 +73,11 @@ func ReadTruth(dir string) (*Truth, error) {
 	if err := tr.readCrossings(filepath.Join(dir, "crossings.csv")); err != nil {
 		return nil, err
 	}
-	if err := tr.readClocks(filepath.Join(dir, "clocks.csv")); err != nil {
+	err := tr.readClocks(filepath.Join(dir, "clocks.csv"))
+	if errors.Is(err, fs.ErrNotExist) {
+		err = tr.readRinexClocks(dir)
+	}
+	if err != nil {
 		return nil, err
 	}
 	if err := tr.findRMax(dir); err != nil {
@@ -191,6 +202,83 @@ func (tr *Truth) readClocks(path string) error {
 	}
 	defer f.Close()
 	return tr.clocksFrom(bufio.NewReaderSize(f, 1<<16), filepath.Base(path))
+}
+
+// readRinexClocks takes the data coverage from the dataset's RINEX clock
+// file.
+func (tr *Truth) readRinexClocks(dir string) error {
+	path := filepath.Join(dir, "clocks.clk")
+	if _, err := os.Stat(path); err != nil {
+		var found []string
+		for _, pat := range []string{"*.clk", "*.CLK", "*.clk.gz", "*.CLK.gz"} {
+			m, _ := filepath.Glob(filepath.Join(dir, pat))
+			found = append(found, m...)
+		}
+		switch len(found) {
+		case 0:
+			return fmt.Errorf("score: %s has neither clocks.csv nor a RINEX clock file", dir)
+		case 1:
+			path = found[0]
+		default:
+			return fmt.Errorf("score: %s has no clocks.csv and %d RINEX clock files (%s); want one", dir, len(found), strings.Join(found, ", "))
+		}
+	}
+	cf, err := sim.ReadRinexClock(path)
+	if err != nil {
+		return fmt.Errorf("score: %w", err)
+	}
+	return tr.clocksFromRinex(cf, filepath.Base(path))
+}
+
+// clocksFromRinex builds the per-clock runs from AS and AR records: times
+// of one clock closer than 1.5 sample intervals (the smallest epoch step of
+// the file) join one run.
+func (tr *Truth) clocksFromRinex(cf *sim.ClockFile, name string) error {
+	var t0 orbits.Time
+	first := true
+	byClock := map[string][]float64{}
+	var order []string
+	var epochs []float64
+	for _, r := range cf.Records {
+		if r.Type != "AS" && r.Type != "AR" {
+			continue
+		}
+		if first {
+			t0, first = r.Epoch, false
+		}
+		t := float64(r.Epoch-t0) / 1e9
+		if _, ok := byClock[r.Name]; !ok {
+			order = append(order, r.Name)
+		}
+		byClock[r.Name] = append(byClock[r.Name], t)
+		epochs = append(epochs, t)
+	}
+	if len(epochs) == 0 {
+		return fmt.Errorf("score: %s: no AS or AR clock records", name)
+	}
+	sort.Float64s(epochs)
+	tr.Start, tr.End = epochs[0], epochs[len(epochs)-1]
+	tr.Interval = 0
+	for i := 1; i < len(epochs); i++ {
+		if d := epochs[i] - epochs[i-1]; d > 0 && (tr.Interval == 0 || d < tr.Interval) {
+			tr.Interval = d
+		}
+	}
+	for _, id := range order {
+		ts := byClock[id]
+		sort.Float64s(ts)
+		var runs [][2]float64
+		for _, t := range ts {
+			if n := len(runs); n > 0 && t-runs[n-1][1] <= 1.5*tr.Interval {
+				runs[n-1][1] = t
+				continue
+			}
+			runs = append(runs, [2]float64{t, t})
+		}
+		tr.Clocks = append(tr.Clocks, id)
+		tr.runs = append(tr.runs, runs)
+	}
+	return nil
 }
 
 func (tr *Truth) clocksFrom(r io.Reader, name string) error {
