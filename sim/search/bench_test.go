@@ -25,6 +25,8 @@ func BenchmarkSearchDay(b *testing.B) {
 		name string
 		cfg  Config
 	}{
+		{"dir20_v8_thin_sub1", Config{Directions: 20, Workers: 1, Thicknesses: []float64{0}, T0Substeps: 1}},
+		{"dir200_v8_thin_sub1", Config{Directions: 200, Thicknesses: []float64{0}, T0Substeps: 1}},
 		{"dir2000_v8_thin_sub1", Config{Directions: 2000, Thicknesses: []float64{0}, T0Substeps: 1}},
 		{"dir2000_v8_thin_sub2", Config{Directions: 2000, Thicknesses: []float64{0}, T0Substeps: 2}},
 	} {

@@ -12,6 +12,7 @@ import (
 // CandidateColumns is the header of a candidate file (DESIGN.md §5: t0_s
 // and stat required; the rest optional). amplitude is the fitted bias step
 // of a clock with unit sensitivity, s; coupling is the coupling class.
+// thickness_m is empty for a thin-wall template (d ≪ v·τ0: unresolved).
 func CandidateColumns() []string {
 	return []string{"t0_s", "stat", "nx", "ny", "nz", "speed_m_s", "thickness_m", "amplitude", "coupling"}
 }
@@ -30,8 +31,12 @@ func WriteCandidates(w io.Writer, cands []Candidate) error {
 	}
 	bw.WriteByte('\n')
 	for _, c := range cands {
+		thick := "" // thin-wall template: thickness unresolved (≪ v·τ0), left empty
+		if c.Thickness > 0 {
+			thick = fmtG(c.Thickness)
+		}
 		row := []string{fmtG(c.T0), fmtG(c.Stat), fmtG(c.N[0]), fmtG(c.N[1]), fmtG(c.N[2]),
-			fmtG(c.Speed), fmtG(c.Thickness), fmtG(c.Amplitude), c.Coupling}
+			fmtG(c.Speed), thick, fmtG(c.Amplitude), c.Coupling}
 		for i, s := range row {
 			if i > 0 {
 				bw.WriteByte(',')

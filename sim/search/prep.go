@@ -192,14 +192,22 @@ func filterAR(y, a []float64) []float64 {
 	return e
 }
 
+// series is the whitened data the scan correlates templates with.
+type series struct {
+	// zm[interval·nd + data clock]: z = Aᵀ·(C⁻¹·A·y) and weight m. Interval
+	// major, so the clocks a sweep touches at one t0 lie close in memory.
+	zm []zm
+	nd int       // data clocks
+	zr []float64 // reference: −Aᵀ·(1ᵀC⁻¹A·y)
+}
+
 // prepared holds the whitened data of a network, ready for the bank scan.
 type prepared struct {
-	nInt  int         // number of intervals (epochs − 1)
-	z     [][]float64 // per data clock: Aᵀ·(C⁻¹·A·y), the numerator series
-	m     [][]float64 // per data clock: 1/σ_j² where the filtered sample is present, else 0
-	zr    []float64   // reference: −Aᵀ·(1ᵀC⁻¹A·y)
-	w     []float64   // per interval: W = Σ_j present 1/σ_j²
-	gamma []float64   // per interval: γ = σ_r²/(1 + σ_r²·W)
+	nInt  int       // number of intervals (epochs − 1)
+	data  series    // from the clipped pseudo-frequencies (the statistic)
+	raw   series    // from the unclipped ones (candidate amplitudes)
+	w     []float64 // per interval: W = Σ_j present 1/σ_j²
+	gamma []float64 // per interval: γ = σ_r²/(1 + σ_r²·W)
 	noise NoiseModel
 }
 
@@ -230,8 +238,8 @@ func prepare(net *Network, cfg *Config) (*prepared, error) {
 		return nil, fmt.Errorf("search: %d clocks with data besides the reference, need at least 2", len(data))
 	}
 	scratch := make([]float64, 0, nInt)
-	// Centre, then clip at Clip robust σ.
-	clipSeries := func(ys [][]float64) ([]float64, error) {
+	// centre removes each series' median in place and returns the robust scales.
+	centre := func(ys [][]float64) ([]float64, error) {
 		total := make([]float64, len(ys))
 		for i, y := range ys {
 			s, med := RobustScale(y, scratch)
@@ -240,28 +248,38 @@ func prepare(net *Network, cfg *Config) (*prepared, error) {
 				return nil, fmt.Errorf("search: clock %q: pseudo-frequency has zero robust scale (constant bias?)", net.Clocks[data[i]].ID)
 			}
 			total[i] = s
-			for k, v := range y {
-				if math.IsNaN(v) {
-					continue
-				}
-				v -= med
-				if cfg.Clip > 0 {
-					v = math.Max(-cfg.Clip*s, math.Min(cfg.Clip*s, v))
-				}
-				y[k] = v
+			for k := range y {
+				y[k] -= med
 			}
 		}
 		return total, nil
 	}
-	total, err := clipSeries(ys)
+	// clipped returns copies of ys winsorised at Clip robust σ.
+	clipped := func(ys [][]float64, total []float64) [][]float64 {
+		out := make([][]float64, len(ys))
+		for i, y := range ys {
+			o := slices.Clone(y)
+			if c := cfg.Clip * total[i]; cfg.Clip > 0 {
+				for k, v := range o {
+					if !math.IsNaN(v) {
+						o[k] = math.Max(-c, math.Min(c, v))
+					}
+				}
+			}
+			out[i] = o
+		}
+		return out
+	}
+	total, err := centre(ys)
 	if err != nil {
 		return nil, err
 	}
 	a := []float64{1}
 	if cfg.Whiten > 0 {
-		// Pooled autocovariance of the normalised series.
+		// Pooled autocovariance of the normalised, clipped series.
+		cy := clipped(ys, total)
 		r := make([]float64, cfg.Whiten+1)
-		for i, y := range ys {
+		for i, y := range cy {
 			inv := 1 / (total[i] * total[i])
 			for l := range r {
 				var s float64
@@ -281,11 +299,12 @@ func prepare(net *Network, cfg *Config) (*prepared, error) {
 		for i := range ys {
 			ys[i] = filterAR(ys[i], a)
 		}
-		if total, err = clipSeries(ys); err != nil {
+		if total, err = centre(ys); err != nil {
 			return nil, err
 		}
 	}
-	sr2 := estimateCommon(ys, total)
+	cy := clipped(ys, total)
+	sr2 := estimateCommon(cy, total)
 	nm := NoiseModel{Data: data, Sigma: make([]float64, len(data)), Total: total, SigmaRef: math.Sqrt(sr2), AR: a}
 	sig2 := make([]float64, len(data))
 	for i, s := range total {
@@ -294,37 +313,52 @@ func prepare(net *Network, cfg *Config) (*prepared, error) {
 		sig2[i] = math.Max(s*s-sr2, 0.01*s*s)
 		nm.Sigma[i] = math.Sqrt(sig2[i])
 	}
-	p := &prepared{nInt: nInt, noise: nm,
-		z: make([][]float64, len(data)), m: make([][]float64, len(data)),
-		zr: make([]float64, nInt), w: make([]float64, nInt), gamma: make([]float64, nInt)}
-	zt := make([][]float64, len(data))
-	for i := range data {
-		zt[i] = make([]float64, nInt)
-		p.m[i] = make([]float64, nInt)
-	}
-	zrt := make([]float64, nInt)
-	col := make([]float64, len(data))
-	out := make([]float64, len(data))
+	p := &prepared{nInt: nInt, noise: nm, w: make([]float64, nInt), gamma: make([]float64, nInt)}
 	for k := range nInt {
+		var wsum float64
 		for i := range data {
-			col[i] = ys[i][k]
-		}
-		ApplyInverse(out, col, sig2, sr2)
-		var wsum, ysum float64
-		for i := range data {
-			zt[i][k] = out[i]
-			if !math.IsNaN(col[i]) {
-				w := 1 / sig2[i]
-				p.m[i][k] = w
-				wsum += w
-				ysum += w * col[i]
+			if !math.IsNaN(cy[i][k]) {
+				wsum += 1 / sig2[i]
 			}
 		}
 		p.w[k] = wsum
 		p.gamma[k] = sr2 / (1 + sr2*wsum)
-		zrt[k] = -ysum / (1 + sr2*wsum) // −1ᵀC⁻¹y
 	}
-	// Numerator series: the adjoint filter Aᵀ, z(k) = Σ_l a[l]·z̃(k + l).
+	p.data = whiten(cy, sig2, sr2, a)
+	p.raw = whiten(ys, sig2, sr2, a)
+	return p, nil
+}
+
+// whiten returns z = Aᵀ·C⁻¹·e for the filtered series e (NaN = absent),
+// the weights m, and the reference series −Aᵀ·1ᵀC⁻¹e.
+func whiten(es [][]float64, sig2 []float64, sr2 float64, a []float64) series {
+	nd, nInt := len(es), len(es[0])
+	zt := make([][]float64, nd)
+	out := series{zm: make([]zm, nd*nInt), nd: nd}
+	for i := range zt {
+		zt[i] = make([]float64, nInt)
+	}
+	zrt := make([]float64, nInt)
+	col := make([]float64, nd)
+	res := make([]float64, nd)
+	for k := range nInt {
+		for i := range es {
+			col[i] = es[i][k]
+		}
+		ApplyInverse(res, col, sig2, sr2)
+		var wsum, ysum float64
+		for i := range es {
+			zt[i][k] = res[i]
+			if !math.IsNaN(col[i]) {
+				w := 1 / sig2[i]
+				out.zm[k*nd+i].m = w
+				wsum += w
+				ysum += w * col[i]
+			}
+		}
+		zrt[k] = -ysum / (1 + sr2*wsum) // −1ᵀC⁻¹e
+	}
+	// The adjoint filter Aᵀ: z(k) = Σ_l a[l]·z̃(k + l).
 	adj := func(x []float64) []float64 {
 		if len(a) == 1 {
 			return x
@@ -341,9 +375,11 @@ func prepare(net *Network, cfg *Config) (*prepared, error) {
 		}
 		return o
 	}
-	for i := range data {
-		p.z[i] = adj(zt[i])
+	for i := range es {
+		for k, v := range adj(zt[i]) {
+			out.zm[k*nd+i].z = v
+		}
 	}
-	p.zr = adj(zrt)
-	return p, nil
+	out.zr = adj(zrt)
+	return out
 }

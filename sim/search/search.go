@@ -90,6 +90,13 @@ func newSearcher(net *Network, cfg Config) (*searcher, error) {
 			return nil, fmt.Errorf("search: no data clock has a sensitivity coefficient for coupling %q", name)
 		}
 	}
+	s.kg = make([][]float64, len(s.k))
+	for cl, ks := range s.k {
+		s.kg[cl] = make([]float64, len(ks))
+		for i, K := range ks {
+			s.kg[cl][i] = K / net.Step
+		}
+	}
 	vmin := math.Inf(1)
 	for _, v := range c.Speeds {
 		vmin = math.Min(vmin, v)
@@ -146,6 +153,17 @@ func Search(net *Network, cfg Config) (*Result, error) {
 		res.Best[m] = s.template(id, w.bestNum[m], w.bestDen[m])
 	}
 	res.Candidates = Cluster(res.Stat, res.Best, res.T0First, s.dt0, s.cfg.Threshold, s.cfg.ClusterWindow)
+	// Refit each candidate's amplitude on the unclipped data: clipping
+	// keeps outliers from dominating the statistic but would bias the
+	// amplitude of a loud wall low.
+	for i := range res.Candidates {
+		c := &res.Candidates[i]
+		m := int(math.Round((c.T0 - res.T0First) / s.dt0))
+		d, vi, th, cl := s.unpackID(w.bestID[m])
+		if num, den := s.evalOne(w, &s.prep.raw, d, vi, th, cl, m); den > 0 {
+			c.Amplitude = num / den
+		}
+	}
 	return res, nil
 }
 

@@ -5,6 +5,8 @@ import (
 	"math/rand/v2"
 	"slices"
 	"testing"
+
+	"wallcross/inject"
 )
 
 // TestCrossingAgainstInject compares the bank's two-step fixed point on
@@ -49,6 +51,57 @@ func TestCrossingAgainstInject(t *testing.T) {
 	t.Logf("largest crossing-time difference from inject.Wall.Cross: %.3g s", worst)
 }
 
+// TestBlockCrossingsAgainstInject checks the bank's quadratic interpolation
+// of crossing times over a t0 block against inject.Wall.Cross at the
+// slowest speed and one t0 per interval (the longest blocks).
+func TestBlockCrossingsAgainstInject(t *testing.T) {
+	rng := rand.New(rand.NewPCG(13, 14))
+	o := defaultSynth()
+	o.epochs = 300
+	sn, phase := newSynth(rng, o)
+	sn.finish(rng, o, phase)
+	s, err := newSearcher(sn.net, Config{Directions: 8, Speeds: []float64{150e3}, Thicknesses: []float64{0}, T0Substeps: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	w := s.newWorker()
+	scan := append(slices.Clone(s.prep.noise.Data), sn.ref)
+	worst := 0.0
+	for d := range s.dirs {
+		n := s.dirs[d]
+		for c := range s.nScan() {
+			for k := range w.proj[c] {
+				r := s.pos[c][k]
+				w.proj[c][k] = n[0]*r[0] + n[1]*r[1] + n[2]*r[2]
+			}
+		}
+		for m0 := 0; m0 < s.nT0; m0 += blockLen {
+			nb := min(blockLen, s.nT0-m0)
+			s.blockCrossings(w, m0, nb, 1/150e3)
+			for _, mm := range []int{1, nb / 4, nb / 2, nb - 2} {
+				if mm < 0 || mm >= nb {
+					continue
+				}
+				wall := testWall(s.t0(m0+mm), n, 150e3, 1e5, 1e-10)
+				for c, j := range scan {
+					cr, err := wall.Cross("x", "rb", func(tt float64) [3]float64 { return sn.net.Pos(j, tt) })
+					if err != nil {
+						t.Fatal(err)
+					}
+					if cr.TCross < 0 || cr.TCross > float64(o.epochs-1)*o.step {
+						continue // outside the data: the table is extrapolated linearly there
+					}
+					worst = math.Max(worst, math.Abs(w.x[c*blockLen+mm]*o.step-cr.TCross))
+				}
+			}
+		}
+	}
+	t.Logf("largest block-interpolated crossing-time error: %.3g s", worst)
+	if worst > 0.05 {
+		t.Fatalf("block-interpolated crossing times differ from inject.Wall.Cross by up to %.3g s", worst)
+	}
+}
+
 // TestStatisticAgainstDense checks the scan's numerator uᵀC⁻¹y and
 // denominator uᵀC⁻¹u (shift-and-add with the Sherman–Morrison buffer)
 // against a direct computation: templates from inject's exact crossing
@@ -60,7 +113,7 @@ func TestStatisticAgainstDense(t *testing.T) {
 		sigmaSat: 1e-12, sigmaSta: 7e-13, sigmaRef: 5e-13, gapFrac: 0.05}
 	sn, phase := newSynth(rng, o)
 	sn.finish(rng, o, phase)
-	cfg := Config{Directions: 5, Speeds: []float64{200e3, 450e3}, Thicknesses: []float64{0},
+	cfg := Config{Directions: 5, Speeds: []float64{200e3, 450e3}, Thicknesses: []float64{0, 1.5e7},
 		Couplings: []string{CouplingEff, "alpha"}, T0Substeps: 2, Clip: -1}
 	s, err := newSearcher(sn.net, cfg)
 	if err != nil {
@@ -84,14 +137,17 @@ func TestStatisticAgainstDense(t *testing.T) {
 		}
 	}
 	checked := 0
-	for id := range len(s.dirs) * len(cfg.Speeds) * len(cfg.Couplings) {
-		d, vi, _, cl := s.unpackID(id)
+	for id := range len(s.dirs) * len(cfg.Speeds) * len(cfg.Thicknesses) * len(cfg.Couplings) {
+		d, vi, th, cl := s.unpackID(id)
+		tau := cfg.Thicknesses[th] / cfg.Speeds[vi]
+		lo := s.kern[vi][th].lo
 		for m := 0; m < s.nT0; m += 7 {
 			t0 := s.t0(m)
 			wall := testWall(t0, s.dirs[d], cfg.Speeds[vi], 1e3, 1e-10)
 			// Spike interval per clock (scan order: data clocks, then the reference).
 			scan := append(slices.Clone(nm.Data), sn.ref)
 			idx := make([]int, len(scan))
+			phase := make([]float64, len(scan))
 			skip := false
 			for c, j := range scan {
 				cr, err := wall.Cross("x", "rb", func(tt float64) [3]float64 { return sn.net.Pos(j, tt) })
@@ -102,28 +158,42 @@ func TestStatisticAgainstDense(t *testing.T) {
 				if math.Abs(x-math.Round(x)) < 0.01 {
 					skip = true // too close to an interval boundary to compare
 				}
+				if xb := x * phaseBins; tau > 0 && math.Abs(xb-math.Round(xb)) < 0.05 {
+					skip = true // too close to a phase-bin boundary
+				}
 				idx[c] = int(math.Floor(x))
+				// The bank quantises the crossing phase to bin centres.
+				phase[c] = (math.Floor((x-math.Floor(x))*phaseBins) + 0.5) / phaseBins
 			}
 			if skip {
 				continue
 			}
 			K := func(c int) float64 { return sn.net.sensitivity(scan[c], cfg.Couplings[cl]) }
+			// tmpl is the unit-step frequency template of scan clock c in interval k.
+			tmpl := func(c, k int) float64 {
+				if tau == 0 {
+					if idx[c] == k {
+						return K(c) / o.step
+					}
+					return 0
+				}
+				o2 := k - idx[c]
+				if o2 < lo || o2 > -lo {
+					return 0
+				}
+				ua := (float64(o2) - phase[c]) * o.step / tau
+				ub := (float64(o2) + 1 - phase[c]) * o.step / tau
+				return K(c) * inject.ProfileGaussian.Between(ua, ub) / math.Sqrt(math.Pi) / o.step
+			}
 			var num, den float64
 			for k := range s.nInt {
 				var u, y, sig2 []float64
-				gr := 0.0
-				if idx[len(scan)-1] == k {
-					gr = K(len(scan)-1) / o.step
-				}
+				gr := tmpl(len(scan)-1, k)
 				for i := range nm.Data {
 					if math.IsNaN(ys[i][k]) {
 						continue
 					}
-					g := 0.0
-					if idx[i] == k {
-						g = K(i) / o.step
-					}
-					u = append(u, g-gr)
+					u = append(u, tmpl(i, k)-gr)
 					y = append(y, ys[i][k])
 					sig2 = append(sig2, nm.Sigma[i]*nm.Sigma[i])
 				}
