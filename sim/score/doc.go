@@ -18,8 +18,9 @@
 //
 // # Gaps
 //
-// An injection is "in a gap" when fewer than half of the clocks in
-// clocks.csv have at least one sample within ±Window/2 of its t0. Such
+// An injection is "in a gap" when fewer than half of the clocks of the
+// data (clocks.csv, or the RINEX clock file of a directory without it) have
+// at least one sample within ±Window/2 of its t0. Such
 // injections are counted separately and left out of every efficiency
 // (detection.md §2.1); candidates matched to them are not false alarms.
 //

@@ -95,7 +95,7 @@ type jsummary struct {
 	TimeReference string    `json:"time_reference"`
 }
 
-const gapRule = "an injection is in a gap when fewer than half of the clocks in clocks.csv have a sample within ±window/2 of its t0"
+const gapRule = "an injection is in a gap when fewer than half of the clocks of the data have a sample within ±window/2 of its t0"
 
 func jiv(iv Interval) jinterval { return jinterval{jnum(iv.Low), jnum(iv.High)} }
 
