@@ -58,6 +58,15 @@ type cellKey struct{ d, v, l string }
 
 func keyOf(d, v, l float64) cellKey { return cellKey{fmtParam(d), fmtParam(v), fmtParam(l)} }
 
+// rowKey is the cell of a table row: (thickness, speed, Λ_eff), or
+// (thickness, speed, step) for a row without Λ_eff (a grid in the step).
+func rowKey(r EffRow) cellKey {
+	if math.IsNaN(r.LambdaEff) && !math.IsNaN(r.Step) {
+		return cellKey{fmtParam(r.Thickness), fmtParam(r.Speed), "step=" + fmtParam(r.Step)}
+	}
+	return keyOf(r.Thickness, r.Speed, r.LambdaEff)
+}
+
 func fmtParam(v float64) string {
 	if math.IsNaN(v) {
 		return ""
@@ -80,7 +89,8 @@ func lessNaN(a, b float64) bool {
 	return a < b
 }
 
-// SortEff sorts rows by thickness, then speed (pooled first), then Λ_eff.
+// SortEff sorts rows by thickness, then speed (pooled first), then Λ_eff,
+// then step (unknown first).
 func SortEff(rows []EffRow) {
 	sort.SliceStable(rows, func(i, j int) bool {
 		a, b := rows[i], rows[j]
@@ -90,7 +100,10 @@ func SortEff(rows []EffRow) {
 		if keyOf(0, a.Speed, 0) != keyOf(0, b.Speed, 0) {
 			return lessNaN(a.Speed, b.Speed)
 		}
-		return lessNaN(a.LambdaEff, b.LambdaEff)
+		if keyOf(0, 0, a.LambdaEff) != keyOf(0, 0, b.LambdaEff) {
+			return lessNaN(a.LambdaEff, b.LambdaEff)
+		}
+		return lessNaN(a.Step, b.Step)
 	})
 }
 
@@ -162,7 +175,7 @@ func ReadEfficiency(r io.Reader, name string) ([]EffRow, error) {
 		if r.N < 0 || r.Found < 0 || r.Found > r.N {
 			return nil, t.errorf(i, "columns n,found: need 0 ≤ found ≤ n, got found=%d n=%d", r.Found, r.N)
 		}
-		k := keyOf(r.Thickness, r.Speed, r.LambdaEff)
+		k := rowKey(r)
 		if prev, dup := seen[k]; dup {
 			return nil, t.errorf(i, "cell thickness=%g m speed=%s lambda_eff=%g GeV repeats line %d", r.Thickness, fmtParam(r.Speed), r.LambdaEff, prev)
 		}
@@ -186,8 +199,8 @@ func ReadEfficiencyFile(path string) ([]EffRow, error) {
 }
 
 // MergeEfficiency pools tables: rows of the same cell (thickness, speed,
-// Λ_eff) add their counts, the step becomes the N-weighted mean of the
-// known steps, and the efficiency and intervals are recomputed from the
+// Λ_eff; or thickness, speed, step for rows without Λ_eff) add their
+// counts, the step becomes the N-weighted mean of the known steps, and the efficiency and intervals are recomputed from the
 // pooled counts (never averaged). The result is sorted with SortEff.
 func MergeEfficiency(tables ...[]EffRow) ([]EffRow, error) {
 	type acc struct {
@@ -202,10 +215,13 @@ func MergeEfficiency(tables ...[]EffRow) ([]EffRow, error) {
 			if r.N < 0 || r.Found < 0 || r.Found > r.N {
 				return nil, fmt.Errorf("score: merge: cell thickness=%g m lambda_eff=%g GeV has found=%d n=%d", r.Thickness, r.LambdaEff, r.Found, r.N)
 			}
-			k := keyOf(r.Thickness, r.Speed, r.LambdaEff)
+			k := rowKey(r)
 			a, ok := idx[k]
 			if !ok {
 				a = &acc{row: EffRow{Thickness: r.Thickness, Speed: r.Speed, LambdaEff: r.LambdaEff}}
+				if math.IsNaN(r.LambdaEff) {
+					a.row.Step = r.Step // the step is the cell's coordinate
+				}
 				idx[k] = a
 				order = append(order, k)
 			}
@@ -220,9 +236,11 @@ func MergeEfficiency(tables ...[]EffRow) ([]EffRow, error) {
 	out := make([]EffRow, 0, len(order))
 	for _, k := range order {
 		a := idx[k]
-		a.row.Step = math.NaN()
-		if a.stepCount > 0 {
-			a.row.Step = a.stepSum / float64(a.stepCount)
+		if !math.IsNaN(a.row.LambdaEff) || math.IsNaN(a.row.Step) {
+			a.row.Step = math.NaN()
+			if a.stepCount > 0 {
+				a.row.Step = a.stepSum / float64(a.stepCount)
+			}
 		}
 		if err := a.row.recompute(); err != nil {
 			return nil, err

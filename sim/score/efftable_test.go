@@ -106,6 +106,29 @@ func TestEfficiencyUnknownLambda(t *testing.T) {
 	}
 }
 
+// TestEfficiencyStepGrid: a table whose grid is in the step (no Λ_eff)
+// keeps one cell per step when read and merged.
+func TestEfficiencyStepGrid(t *testing.T) {
+	in := "thickness_m,speed_m_s,step_s,n,found\n1e6,3e5,1e-11,20,2\n1e6,3e5,2e-11,20,9\n1e6,3e5,4e-11,20,18\n"
+	rows, err := ReadEfficiency(strings.NewReader(in), "e.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	m, err := MergeEfficiency(rows, rows)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(m) != 3 || m[0].Step != 1e-11 || m[0].N != 40 || m[2].Step != 4e-11 || m[2].Found != 36 {
+		t.Errorf("merged %+v", m)
+	}
+	if _, err := ReadEfficiency(strings.NewReader(in+"1e6,3e5,2e-11,5,1\n"), "e.csv"); err == nil || !strings.Contains(err.Error(), "e.csv:5:") {
+		t.Errorf("duplicate step cell: %v", err)
+	}
+	if fits := FitByThickness(m, 0.6827); len(fits) != 1 {
+		t.Errorf("%d fits, want 1", len(fits))
+	}
+}
+
 func ExampleMergeEfficiency() {
 	shard1, _ := NewEffRow(1e7, 3e5, 1e12, 2e-10, 50, 20)
 	shard2, _ := NewEffRow(1e7, 3e5, 1e12, 2e-10, 50, 25)
