@@ -111,3 +111,100 @@ func (m ClockModel) AVAR(tau, tau0 float64) float64 {
 
 // ADEV returns √AVAR (dimensionless).
 func (m ClockModel) ADEV(tau, tau0 float64) float64 { return math.Sqrt(m.AVAR(tau, tau0)) }
+
+// TermMVAR returns the expected modified Allan variance Mod σ_y²(τ) of one
+// power-law term (see TermAVAR) for data sampled at tau0 > 0, m = tau/tau0:
+//
+//	MVAR(m) = 16 Q_d/(π m⁴ τ0²) · ∫_0^{π/2} (2 sin u)^β sin⁶(mu)/sin²u du
+//
+// (stability.md §1.6), in closed form for WPM (3Q_d/(mτ²)) and WFM
+// ((h_0/(4τ))(1 + 1/m²)), by quadrature otherwise; for m > 4096 the
+// large-m limits (SP 1065 §6 / stability.md §1.4: 3 ln(256/27) h_1/(8π²τ²),
+// (27 ln3 − 32 ln2)/8 h_{−1}, (11/20)π² τ h_{−2}) are used. With tau0 = 0 it
+// returns the continuous limits for WFM, FFM and RWFM and NaN for PM.
+func TermMVAR(t Term, h, tau, tau0 float64) float64 {
+	if h == 0 {
+		return 0
+	}
+	asym := func() float64 {
+		switch t {
+		case FlickerPM:
+			return 3 * math.Log(256.0/27) * h / (8 * math.Pi * math.Pi * tau * tau)
+		case WhiteFM:
+			return h / (4 * tau)
+		case FlickerFM:
+			return (27*math.Log(3) - 32*math.Ln2) / 8 * h
+		case RandomWalkFM:
+			return 11.0 / 20 * math.Pi * math.Pi * tau * h
+		}
+		return math.NaN()
+	}
+	if tau0 <= 0 {
+		if t == FlickerPM {
+			return math.NaN()
+		}
+		return asym()
+	}
+	m := tau / tau0
+	switch t {
+	case WhitePM:
+		return 3 * Qd(WhitePM, h, tau0) / (m * tau * tau)
+	case WhiteFM:
+		return h / (4 * tau) * (1 + 1/(m*m))
+	}
+	if m > 4096 {
+		return asym()
+	}
+	beta := float64(t.Alpha() - 2)
+	return 16 * Qd(t, h, tau0) / (math.Pi * m * m * m * m * tau0 * tau0) * sin6Integral(beta, m)
+}
+
+// sin6Integral returns ∫_0^{π/2} (2 sin u)^β sin⁶(mu)/sin²u du (composite
+// 8-point Gauss–Legendre, panels shorter than the period of sin⁶(mu)/6·4).
+func sin6Integral(beta, m float64) float64 {
+	panels := int(6*m) + 8
+	f := func(u float64) float64 {
+		s := math.Sin(m * u)
+		su := math.Sin(u)
+		s2 := s * s
+		return math.Pow(2*su, beta) * s2 * s2 * s2 / (su * su)
+	}
+	var leg quad.Legendre
+	xs := make([]float64, 8)
+	ws := make([]float64, 8)
+	leg.FixedLocations(xs, ws, -1, 1)
+	w := math.Pi / 2 / float64(panels)
+	sum := 0.0
+	for p := range panels {
+		a := float64(p) * w
+		for i := range xs {
+			sum += ws[i] * f(a+(xs[i]+1)*w/2)
+		}
+	}
+	return sum * w / 2
+}
+
+// MVAR returns the expected modified Allan variance of the model: the
+// power-law terms (TermMVAR), the linear drift D²τ²/2 (SP 1065; stability.md
+// §1.4) and the periodic terms, time-averaged,
+// 4A² sin⁶(πτ/P) / (m² τ² sin²(πτ0/P)) (the m-sample sum of the second
+// differences of A sin(2πt/P + φ); it equals the AVAR term at m = 1, and
+// m sin(πτ0/P) → πτ/P for tau0 = 0). The steering loop is not included.
+func (m ClockModel) MVAR(tau, tau0 float64) float64 {
+	v := 0.0
+	for i, h := range m.H {
+		if t := TermMVAR(Term(i), h, tau, tau0); !math.IsNaN(t) {
+			v += t
+		}
+	}
+	v += m.Drift * m.Drift * tau * tau / 2
+	for _, p := range m.Periodic {
+		s := math.Sin(math.Pi * tau / p.Period)
+		den := math.Pi * tau / p.Period // m·sin(πτ0/P) in the continuous limit
+		if tau0 > 0 {
+			den = tau / tau0 * math.Sin(math.Pi*tau0/p.Period)
+		}
+		v += 4 * p.Amplitude * p.Amplitude * s * s * s * s * s * s / (tau * tau * den * den)
+	}
+	return v
+}

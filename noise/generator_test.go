@@ -278,3 +278,57 @@ func ExampleClockModel_Phase() {
 	// Output:
 	// σ_y(300 s): simulated 6e-14, model 6e-14
 }
+
+// TestGeneratorMDEVInChi2Interval is TestGeneratorADEVInChi2Interval for
+// the modified Allan deviation against TermMVAR (stability.md §1.6), with
+// the Greenhall–Riley EDF of MDEV.
+func TestGeneratorMDEVInChi2Interval(t *testing.T) {
+	const (
+		n    = 1 << 16
+		tau0 = 2.0
+		h    = 1e-22
+	)
+	ms := []int{1, 2, 4, 16, 64, 256}
+	outside95 := 0
+	for term := WhitePM; term <= RandomWalkFM; term++ {
+		x := single(term, h).Phase(rand.New(rand.NewPCG(43, uint64(term))), n, tau0)
+		alpha := term.Alpha()
+		for _, cl := range []float64{0.95, 0.999} {
+			res, err := stability.Compute(stability.StatMDEV, x, tau0, ms, &stability.Options{Alpha: &alpha, CL: cl})
+			if err != nil || len(res) != len(ms) {
+				t.Fatalf("%v: %v, %d results", term, err, len(res))
+			}
+			for _, r := range res {
+				want := math.Sqrt(TermMVAR(term, h, r.Tau, tau0))
+				if r.CILow <= want && want <= r.CIHigh {
+					continue
+				}
+				if cl == 0.95 {
+					outside95++
+					t.Logf("%v τ=%g s: MDEV %.4g, expected %.4g outside 95 %% interval [%.4g, %.4g]", term, r.Tau, r.Value, want, r.CILow, r.CIHigh)
+				} else {
+					t.Errorf("%v τ=%g s: MDEV %.4g, expected %.4g outside 99.9 %% interval [%.4g, %.4g]", term, r.Tau, r.Value, want, r.CILow, r.CIHigh)
+				}
+			}
+		}
+	}
+	if outside95 > 4 {
+		t.Errorf("%d of 30 points outside their 95 %% interval, want ≤ 4", outside95)
+	}
+}
+
+// TestModelMVARPeriodicAndDrift: the MDEV of a noise-free clock with drift
+// and one periodic term equals √ClockModel.MVAR (the sinusoid closed form and
+// Dτ/√2, SP 1065 / stability.md §4.3).
+func TestModelMVARPeriodicAndDrift(t *testing.T) {
+	m := ClockModel{Drift: 2e-17, Periodic: []Periodic{{Period: 3000, Amplitude: 1e-10, Phase: 0.7}}}
+	const n, tau0 = 300000, 1.0
+	x := m.Phase(rand.New(rand.NewPCG(1, 1)), n, tau0)
+	for _, r := range stability.MDEV(x, tau0, []int{1, 7, 100, 700, 2000}) {
+		want := math.Sqrt(m.MVAR(r.Tau, tau0))
+		// a non-integer number of periods in the average leaves ~P/T ripple
+		if math.Abs(r.Value/want-1) > 2e-3 {
+			t.Errorf("τ=%g s: MDEV %.6g, model %.6g", r.Tau, r.Value, want)
+		}
+	}
+}

@@ -118,3 +118,36 @@ func TestCalibrateRecoversKnownModel(t *testing.T) {
 		t.Error("Calibrate with WPM and tau0 = 0 should fail")
 	}
 }
+
+// TestTermMVARDiscreteRatios checks the sampled MVAR expectations against
+// the "exact discrete / asymptotic" table of stability.md §1.6 (FFM
+// asymptote (27 ln3 − 32 ln2)/8, FPM 3 ln(256/27)/(8π²τ²)).
+func TestTermMVARDiscreteRatios(t *testing.T) {
+	for _, c := range []struct {
+		term  Term
+		m     float64
+		ratio float64
+	}{
+		{FlickerPM, 1, 1.58071}, {FlickerPM, 2, 1.20435}, {FlickerPM, 16, 1.00617}, {FlickerPM, 256, 1.00004},
+		{WhiteFM, 1, 2}, {WhiteFM, 4, 1.0625},
+		{FlickerFM, 1, 2.13852}, {FlickerFM, 8, 1.01196}, {FlickerFM, 64, 1.00018},
+		{RandomWalkFM, 1, 1.81818}, {RandomWalkFM, 2, 1.13636}, {RandomWalkFM, 16, 1.00178},
+	} {
+		got := TermMVAR(c.term, 1, c.m, 1)
+		var asym float64
+		if c.term == FlickerPM {
+			asym = 3 * math.Log(256.0/27) / (8 * math.Pi * math.Pi * c.m * c.m)
+		} else {
+			asym = TermMVAR(c.term, 1, c.m, 0)
+		}
+		if r := got / asym; math.Abs(r-c.ratio) > 6e-5*c.ratio {
+			t.Errorf("%v m=%g: exact/asymptote = %.6f, want %.5f", c.term, c.m, r, c.ratio)
+		}
+	}
+	// m = 1: MVAR equals AVAR for every term (the estimators coincide)
+	for term := WhitePM; term <= RandomWalkFM; term++ {
+		if a, m := TermAVAR(term, 1e-22, 2, 2), TermMVAR(term, 1e-22, 2, 2); math.Abs(m/a-1) > 1e-6 {
+			t.Errorf("%v: MVAR(τ0)/AVAR(τ0) = %.8f, want 1", term, m/a)
+		}
+	}
+}

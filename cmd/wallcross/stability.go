@@ -30,7 +30,7 @@ func newStabilityCmd() *command {
 	taus := fs.String("taus", "octave", "averaging-time grid: octave (τ0·2^k), decade (1-2-5 per decade) or all")
 	csvOut := fs.Bool("csv", false, "print CSV (clock,stat,tau_s,n,value,ci_low,ci_high,edf) instead of a table")
 	plotPath := fs.String("plot", "", "also draw σ(τ) with error bars to `FILE.svg` or FILE.png")
-	family := fs.String("family", "", "draw the model ADEV of this clock-family preset `NAME` on the plot")
+	family := fs.String("family", "", "draw the model ADEV (and MDEV) of this clock-family preset `NAME` on the plot")
 	return &command{
 		Name:  "stability",
 		Usage: "stability FILE [--clock ID] [--input phase|frequency] [--tau0 S] [--stat oadev,mdev,...] [--taus octave|decade|all] [--csv] [--plot FILE.svg|png]",
@@ -177,17 +177,21 @@ Example:
 				return err
 			}
 			if *plotPath != "" {
-				var mf func(float64) float64
-				label := ""
+				var models []stability.ModelCurve
 				if model != nil {
-					mf = func(t float64) float64 { return model.ADEV(t, tau0) }
-					label = "model " + *family + " (ADEV)"
+					// the preset's expected σ(τ) at the data's τ0: Allan
+					// (with drift and periodic terms) and, with mdev/tdev,
+					// modified Allan (noise and drift)
+					models = append(models, stability.ModelCurve{Label: "model " + *family + " (ADEV)", F: func(t float64) float64 { return model.ADEV(t, tau0) }})
+					if slices.Contains(stats, stability.StatMDEV) {
+						models = append(models, stability.ModelCurve{Label: "model " + *family + " (MDEV)", F: func(t float64) float64 { return math.Sqrt(model.MVAR(t, tau0)) }})
+					}
 				}
 				ylabel := "σ(τ)"
 				if len(stats) == 1 && stats[0] == stability.StatTDEV {
 					ylabel = "σx(τ) [s]"
 				}
-				p, err := stability.Plot(filepath.Base(args[0]), ylabel, curves, mf, label)
+				p, err := stability.Plot(filepath.Base(args[0]), ylabel, curves, models...)
 				if err != nil {
 					return err
 				}

@@ -33,11 +33,17 @@ func (e errPoints) YError(i int) (float64, float64) {
 	return lo, hi
 }
 
+// ModelCurve is a model σ(τ) drawn as a dashed line (F evaluated on a log
+// grid spanning the data).
+type ModelCurve struct {
+	Label string
+	F     func(tau float64) float64
+}
+
 // Plot draws σ(τ) curves on log-log axes with their confidence intervals as
-// error bars, and optionally a model curve (model(τ) evaluated on a log grid
-// spanning the data; nil for none). ylabel names the quantity ("σy(τ)", or
+// error bars, and any model curves. ylabel names the quantity ("σy(τ)", or
 // "σx(τ) [s]" for TDEV).
-func Plot(title, ylabel string, curves []Curve, model func(tau float64) float64, modelLabel string) (*plot.Plot, error) {
+func Plot(title, ylabel string, curves []Curve, models ...ModelCurve) (*plot.Plot, error) {
 	p := plot.New()
 	p.Title.Text = title
 	p.X.Label.Text = "τ [s]"
@@ -80,7 +86,10 @@ func Plot(title, ylabel string, curves []Curve, model func(tau float64) float64,
 	if math.IsInf(tmin, 1) {
 		return nil, fmt.Errorf("stability: plot: no positive values to draw")
 	}
-	if model != nil {
+	for mi, mc := range models {
+		if mc.F == nil {
+			continue
+		}
 		var xy plotter.XYs
 		lo, hi := math.Log10(tmin), math.Log10(tmax)
 		if hi == lo {
@@ -88,7 +97,7 @@ func Plot(title, ylabel string, curves []Curve, model func(tau float64) float64,
 		}
 		for i := 0; i <= 100; i++ {
 			t := math.Pow(10, lo+(hi-lo)*float64(i)/100)
-			if v := model(t); v > 0 && !math.IsInf(v, 0) {
+			if v := mc.F(t); v > 0 && !math.IsInf(v, 0) {
 				xy = append(xy, plotter.XY{X: t, Y: v})
 			}
 		}
@@ -97,10 +106,10 @@ func Plot(title, ylabel string, curves []Curve, model func(tau float64) float64,
 			if err != nil {
 				return nil, fmt.Errorf("stability: plot model: %w", err)
 			}
-			l.Color = color.Gray{Y: 80}
-			l.Dashes = []vg.Length{vg.Points(4), vg.Points(3)}
+			l.Color = color.Gray{Y: uint8(80 + 60*(mi%2))}
+			l.Dashes = []vg.Length{vg.Points(4), vg.Points(3 + 2*float64(mi%3))}
 			p.Add(l)
-			p.Legend.Add(modelLabel, l)
+			p.Legend.Add(mc.Label, l)
 		}
 	}
 	return p, nil

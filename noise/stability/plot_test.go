@@ -25,7 +25,7 @@ func TestPlotGolden(t *testing.T) {
 	oa := OADEV(x, 1, OctaveTaus(len(x), StatOADEV))
 	md := MDEV(x, 1, OctaveTaus(len(x), StatMDEV))
 	p, err := Plot("SP 1065 1000-point set", "σy(τ)", []Curve{{"oadev", oa}, {"mdev", md}},
-		func(tau float64) float64 { return math.Sqrt(1.0 / 12 / tau) }, "white FM, σ² = 1/12")
+		ModelCurve{"white FM, σ² = 1/12", func(tau float64) float64 { return math.Sqrt(1.0 / 12 / tau) }})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -77,10 +77,10 @@ func samePixels(a, b image.Image) bool {
 }
 
 func TestPlotErrors(t *testing.T) {
-	if _, err := Plot("empty", "σ", nil, nil, ""); err == nil {
+	if _, err := Plot("empty", "σ", nil); err == nil {
 		t.Error("plot of no data accepted")
 	}
-	p, _ := Plot("one", "σ", []Curve{{"a", []Result{{Tau: 1, Value: 1, CILow: 0.9, CIHigh: 1.1}}}}, nil, "")
+	p, _ := Plot("one", "σ", []Curve{{"a", []Result{{Tau: 1, Value: 1, CILow: 0.9, CIHigh: 1.1}}}})
 	if err := WritePlot(&bytes.Buffer{}, p, "pdf"); err == nil {
 		t.Error("pdf format accepted")
 	}
