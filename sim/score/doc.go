@@ -30,6 +30,12 @@
 // intervals at EfficiencyCL (two-sided). Limits use the zero-event Poisson
 // condition ε·T_obs/T ≥ −ln(1−CL) with ε replaced by its Clopper–Pearson
 // lower bound, which makes them conservative (detection.md §2.4 item 7).
+// Efficiency is measured per grid cell at fixed (d, Λ_eff); the excluded
+// Λ_eff at each d is the largest Λ_eff whose lower bound satisfies the
+// condition, interpolated in log Λ_eff towards the next cell. The bias step
+// scales as T·d²/Λ_eff² (A² = ħc·ρ_DM·v·T·d, physics.md §3.3), so a table
+// made with mean interval T_inj serves any T after rescaling Λ_eff by
+// √(T/T_inj). No limit exists at all when T > T_obs/(−ln(1−CL)).
 //
 // Units: SI throughout (s, m, m/s); Λ_eff in GeV as in events.csv; time
 // stamps are seconds since the first epoch of the dataset, as in the
