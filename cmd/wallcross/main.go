@@ -29,6 +29,7 @@ func commands() []*command {
 		newClockCmd(),
 		newStabilityCmd(),
 		newOverlayCmd(),
+		newSearchCmd(),
 		newScoreCmd(),
 		newReachCmd(),
 		newCampaignCmd(),

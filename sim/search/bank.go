@@ -21,7 +21,8 @@ type Config struct {
 	// DefaultSpeeds: 8 geometric steps from 150 to 700 km/s).
 	Speeds []float64
 	// Thicknesses are the wall thicknesses of the bank, m; 0 is the thin
-	// wall (a one-interval spike). Default {0, 2e7}.
+	// wall (a one-interval spike, d ≪ v·τ0). Default {0}: each thick class
+	// costs about (6·d/(v·τ0) + 1) thin classes (its kernel length).
 	Thicknesses []float64
 	// Profile is the wall profile of the thick templates (default Gaussian).
 	// The linear kink, which has no finite step, is not supported.
@@ -45,8 +46,14 @@ type Config struct {
 	// treats the pseudo-frequencies as white. At most 8.
 	Whiten int
 	// Clip winsorises pseudo-frequencies at Clip robust σ (default 8;
-	// negative disables clipping).
+	// negative disables clipping), unless the sample is coherent (see
+	// Coincidence). The statistic uses the clipped data; candidate
+	// amplitudes are refitted on the unclipped data.
 	Clip float64
+	// Coincidence is the number of other clocks that must also exceed Clip σ
+	// within ±2R/v_min (the longest sweep) for an excursion to be kept
+	// unclipped (default 3; negative: clip every excursion).
+	Coincidence int
 	// Workers is the number of goroutines (default GOMAXPROCS, capped at the
 	// number of directions). The output does not depend on it.
 	Workers int
@@ -69,8 +76,10 @@ func DefaultSpeeds() []float64 {
 	return s
 }
 
-// DefaultThicknesses returns the default thickness classes, m.
-func DefaultThicknesses() []float64 { return []float64{0, 2e7} }
+// DefaultThicknesses returns the default thickness classes, m: the thin
+// wall only (the regime of the GPS searches, d ≪ v·τ0 ≈ 4,500–21,000 km
+// for 30-s data).
+func DefaultThicknesses() []float64 { return []float64{0} }
 
 // withDefaults returns a copy of cfg with defaults filled in and checked.
 func (cfg Config) withDefaults() (Config, error) {
@@ -123,6 +132,12 @@ func (cfg Config) withDefaults() (Config, error) {
 	}
 	if c.Clip == 0 {
 		c.Clip = 8
+	}
+	if c.Coincidence == 0 {
+		c.Coincidence = 3
+	}
+	if c.Coincidence < 0 {
+		c.Coincidence = math.MaxInt32
 	}
 	if c.Workers <= 0 {
 		c.Workers = runtime.GOMAXPROCS(0)

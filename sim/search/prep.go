@@ -212,7 +212,9 @@ type prepared struct {
 }
 
 // prepare turns the bias series into whitened pseudo-frequencies.
-func prepare(net *Network, cfg *Config) (*prepared, error) {
+//
+// window is the coincidence half-window of the clipping, in intervals.
+func prepare(net *Network, cfg *Config, window int) (*prepared, error) {
 	nInt := net.Epochs() - 1
 	var data []int
 	var ys [][]float64
@@ -255,16 +257,59 @@ func prepare(net *Network, cfg *Config) (*prepared, error) {
 		return total, nil
 	}
 	// clipped returns copies of ys winsorised at Clip robust σ.
+	// clipped returns copies of ys winsorised at Clip robust σ, except
+	// samples that are coherent: at least cfg.Coincidence other clocks also
+	// exceed Clip σ within ±window intervals (a sweep). A wall's spikes
+	// (and the reference's own crossing, common to every series) survive;
+	// single-clock outliers and phase jumps are clipped.
 	clipped := func(ys [][]float64, total []float64) [][]float64 {
 		out := make([][]float64, len(ys))
+		if !(cfg.Clip > 0) {
+			for i, y := range ys {
+				out[i] = slices.Clone(y)
+			}
+			return out
+		}
+		// exceed[k]: clocks exceeding at interval k; prefix sums over k.
+		exc := make([][]bool, len(ys))
+		cum := make([]int, nInt+1)
+		for i, y := range ys {
+			c := cfg.Clip * total[i]
+			exc[i] = make([]bool, nInt)
+			for k, v := range y {
+				if math.Abs(v) > c {
+					exc[i][k] = true
+				}
+			}
+		}
+		for k := range nInt {
+			n := 0
+			for i := range ys {
+				if exc[i][k] {
+					n++
+				}
+			}
+			cum[k+1] = cum[k] + n
+		}
 		for i, y := range ys {
 			o := slices.Clone(y)
-			if c := cfg.Clip * total[i]; cfg.Clip > 0 {
-				for k, v := range o {
-					if !math.IsNaN(v) {
-						o[k] = math.Max(-c, math.Min(c, v))
+			c := cfg.Clip * total[i]
+			own := 0 // this clock's exceedances inside the window
+			for k, v := range o {
+				if !exc[i][k] {
+					continue
+				}
+				lo, hi := max(0, k-window), min(nInt, k+window+1)
+				own = 0
+				for kk := lo; kk < hi; kk++ {
+					if exc[i][kk] {
+						own++
 					}
 				}
+				if cum[hi]-cum[lo]-own >= cfg.Coincidence {
+					continue // coherent across the network: keep
+				}
+				o[k] = math.Max(-c, math.Min(c, v))
 			}
 			out[i] = o
 		}

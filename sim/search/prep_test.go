@@ -140,7 +140,7 @@ func TestCommonModeEstimate(t *testing.T) {
 	sn, phase := newSynth(rng, o)
 	sn.finish(rng, o, phase)
 	cfg, _ := Config{}.withDefaults()
-	p, err := prepare(sn.net, &cfg)
+	p, err := prepare(sn.net, &cfg, 12)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -156,4 +156,41 @@ func TestCommonModeEstimate(t *testing.T) {
 		}
 	}
 	t.Logf("σ_r estimated %.3g (true %.3g)", p.noise.SigmaRef, o.sigmaRef)
+}
+
+// TestCoherentClipping: an excursion in one clock is clipped, the same
+// excursion in several clocks within the sweep window is kept.
+func TestCoherentClipping(t *testing.T) {
+	rng := rand.New(rand.NewPCG(41, 42))
+	o := defaultSynth()
+	o.epochs = 400
+	sn, phase := newSynth(rng, o)
+	// Outlier: a 30σ frequency spike in clock 0 alone at interval 100.
+	for k := 101; k < o.epochs; k++ {
+		phase[0][k] += 30 * o.sigmaSat * o.step
+	}
+	// Coherent: the same spike in clocks 1..5 within 3 intervals at 250.
+	for j := 1; j <= 5; j++ {
+		for k := 250 + j%3 + 1; k < o.epochs; k++ {
+			phase[j][k] += 30 * o.sigmaSat * o.step
+		}
+	}
+	sn.finish(rng, o, phase)
+	cfg, _ := Config{}.withDefaults()
+	p, err := prepare(sn.net, &cfg, 6)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// data[0] is clock 0: its whitened spike is clipped (≤ 8σ/σ² scale),
+	// the raw one is not.
+	z := func(ser series, c, k int) float64 { return ser.zm[k*ser.nd+c].z * p.noise.Sigma[c] }
+	if a, b := math.Abs(z(p.data, 0, 100)), math.Abs(z(p.raw, 0, 100)); !(a < 10 && b > 25) {
+		t.Errorf("isolated 30σ spike: clipped %.1f σ, raw %.1f σ; want clipped ≤ 10, raw ≈ 30", a, b)
+	}
+	for j := 1; j <= 5; j++ {
+		k := 250 + j%3
+		if a := math.Abs(z(p.data, j, k)); a < 25 {
+			t.Errorf("coherent spike in clock %d at %d: %.1f σ after clipping, want ≈ 30", j, k, a)
+		}
+	}
 }

@@ -50,19 +50,11 @@ func newSearcher(net *Network, cfg Config) (*searcher, error) {
 	if err != nil {
 		return nil, err
 	}
-	prep, err := prepare(net, &c)
-	if err != nil {
-		return nil, err
-	}
-	s := &searcher{cfg: c, prep: prep, step: net.Step, nEpoch: net.Epochs(), nInt: prep.nInt,
-		nData: len(prep.noise.Data), hasRef: net.Ref >= 0}
-	scan := append([]int(nil), prep.noise.Data...)
-	if s.hasRef {
-		scan = append(scan, net.Ref)
-	}
-	s.pos = make([][][3]float64, len(scan))
-	for c, j := range scan {
-		p := make([][3]float64, s.nEpoch)
+	// Positions of every clock at every epoch, and the network radius.
+	all := make([][][3]float64, len(net.Clocks))
+	radius := 0.0
+	for j := range all {
+		p := make([][3]float64, net.Epochs())
 		for k := range p {
 			r := net.Pos(j, float64(k)*net.Step)
 			for a := range 3 {
@@ -71,9 +63,30 @@ func newSearcher(net *Network, cfg Config) (*searcher, error) {
 				}
 			}
 			p[k] = r
-			s.radius = math.Max(s.radius, math.Sqrt(r[0]*r[0]+r[1]*r[1]+r[2]*r[2]))
+			radius = math.Max(radius, math.Sqrt(r[0]*r[0]+r[1]*r[1]+r[2]*r[2]))
 		}
-		s.pos[c] = p
+		all[j] = p
+	}
+	if !(radius > 0) || radius > 1e9 {
+		return nil, fmt.Errorf("search: network radius %g m: want positive and below 1e9 m", radius)
+	}
+	vmin := math.Inf(1)
+	for _, v := range c.Speeds {
+		vmin = math.Min(vmin, v)
+	}
+	prep, err := prepare(net, &c, int(math.Ceil(2*radius/(vmin*net.Step))))
+	if err != nil {
+		return nil, err
+	}
+	s := &searcher{cfg: c, prep: prep, step: net.Step, nEpoch: net.Epochs(), nInt: prep.nInt,
+		nData: len(prep.noise.Data), hasRef: net.Ref >= 0, radius: radius}
+	scan := append([]int(nil), prep.noise.Data...)
+	if s.hasRef {
+		scan = append(scan, net.Ref)
+	}
+	s.pos = make([][][3]float64, len(scan))
+	for c, j := range scan {
+		s.pos[c] = all[j]
 	}
 	s.k = make([][]float64, len(c.Couplings))
 	for cl, name := range c.Couplings {
@@ -96,10 +109,6 @@ func newSearcher(net *Network, cfg Config) (*searcher, error) {
 		for i, K := range ks {
 			s.kg[cl][i] = K / net.Step
 		}
-	}
-	vmin := math.Inf(1)
-	for _, v := range c.Speeds {
-		vmin = math.Min(vmin, v)
 	}
 	nd := c.Directions
 	if nd == 0 {
