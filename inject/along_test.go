@@ -22,6 +22,7 @@ func TestAlongMatchesClosedFormUniformMotion(t *testing.T) {
 			}
 			d := math.Pow(10, 6+2*rng.Float64())
 			w := effWall(randomUnit(rng), 1e5+2e5*rng.Float64(), d, 5000, 1e9, 1e11, p)
+			w.ClockMotion = true // compared with the exact path integral, which includes the clock's motion
 			c, err := w.Cross("U", "rb", tr)
 			if err != nil {
 				t.Fatal(err)
@@ -62,6 +63,7 @@ func TestAlongThickWallGPS(t *testing.T) {
 		tr := circularOrbit(26.56e6, 55*math.Pi/180, 2*math.Pi*rng.Float64(), 2*math.Pi*rng.Float64())
 		for _, p := range []Profile{ProfileGaussian, ProfileTopHat} {
 			w := effWall(randomUnit(rng), 3e5, 1e9, 20000, 1e9, 1e11, p)
+			w.ClockMotion = true // compared with the exact path integral, which includes the clock's motion
 			c, err := w.Cross("G", "rb", tr)
 			if err != nil {
 				t.Fatal(err)
@@ -113,6 +115,7 @@ func TestAlongThickWallGPS(t *testing.T) {
 
 func TestAlongErrors(t *testing.T) {
 	w := effWall([3]float64{1, 0, 0}, 3e5, 1e7, 0, 1e9, 1e11, ProfileGaussian)
+	w.ClockMotion = true // compared with the exact path integral, which includes the clock's motion
 	tr := func(float64) [3]float64 { return [3]float64{1e6, 0, 0} }
 	c, err := w.Cross("C", "rb", tr)
 	if err != nil {
@@ -164,6 +167,7 @@ func TestAlongOrbitAveraging(t *testing.T) {
 	for s := range 4 {
 		tr := circularOrbit(26.56e6, 55*math.Pi/180, float64(s), 2*float64(s))
 		w := effWall(n, 3e5, 1e10, 0, 1e9, 1e11, ProfileGaussian)
+		w.ClockMotion = true // compared with the exact path integral, which includes the clock's motion
 		c, err := w.Cross("G", "rb", tr)
 		if err != nil {
 			t.Fatal(err)

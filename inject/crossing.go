@@ -20,7 +20,7 @@ type Crossing struct {
 	Family   string  // clock family
 	TCross   float64 // s since the run start: N·r(t) = v·(t − T0)
 	VRel     float64 // relative normal speed v − N·ṙ(TCross), m/s (> 0)
-	Tau      float64 // crossing time scale d/VRel, s
+	Tau      float64 // crossing time scale, s: d/v (default) or d/VRel (Wall.ClockMotion)
 	Profile  Profile
 	Scale    float64 // Γ·Aⁿ, dimensionless
 	Residual float64 // |N·r(TCross) − v·(TCross − T0)|/v, s
@@ -80,8 +80,14 @@ func (w *Wall) Cross(clock, family string, tr Trajectory) (Crossing, error) {
 	// N·r̈ by a second difference (for LinearError only; NaN if the
 	// trajectory is not finite within 5 s of the crossing).
 	acc := (dot(w.N, tr(tc+accelStep)) - 2*dot(w.N, tr(tc)) + dot(w.N, tr(tc-accelStep))) / (accelStep * accelStep)
+	// physics.md §3.2: the clock sees φ²(v⊥·(t − t_j)), τ = d/v⊥, the same
+	// for every clock; ClockMotion uses the clock's own relative speed.
+	tau := w.Thickness / w.Speed
+	if w.ClockMotion {
+		tau = w.Thickness / vrel
+	}
 	return Crossing{Event: w.ID, Clock: clock, Family: family, TCross: tc, VRel: vrel,
-		Tau: w.Thickness / vrel, Profile: w.Profile, Scale: scale, Residual: res, AccelN: acc}, nil
+		Tau: tau, Profile: w.Profile, Scale: scale, Residual: res, AccelN: acc}, nil
 }
 
 func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
@@ -178,7 +184,7 @@ func (w *Wall) solve(tr Trajectory) (float64, float64, error) {
 
 // Step returns the total bias change ΔT = Scale·Tau·C_p in s the clock
 // accumulates over the whole crossing (physics.md §3.3; Gaussian:
-// √π·Γ·A²·d/v_rel). NaN for the linear kink, whose phase ramps.
+// √π·Γ·A²·d/v, or d/v_rel with Wall.ClockMotion). NaN for the linear kink, whose phase ramps.
 func (c Crossing) Step() float64 { return c.Scale * c.Tau * c.Profile.Area() }
 
 // Record returns the crossings.csv row of this crossing.

@@ -136,8 +136,13 @@ func TestCrossingMovingClock(t *testing.T) {
 	if !scalar.EqualWithinRel(c.VRel, v+u, 1e-12) {
 		t.Errorf("v_rel %.12g m/s, want %.12g", c.VRel, v+u)
 	}
-	if !scalar.EqualWithinRel(c.Tau, 1e7/(v+u), 1e-12) {
-		t.Errorf("tau %g s", c.Tau)
+	// Default (physics.md §3.2): τ = d/v⊥ for every clock.
+	if !scalar.EqualWithinRel(c.Tau, 1e7/v, 1e-12) {
+		t.Errorf("tau %g s, want d/v = %g s", c.Tau, 1e7/v)
+	}
+	w.ClockMotion = true
+	if c, err = w.Cross("M", "rb", tr); err != nil || !scalar.EqualWithinRel(c.Tau, 1e7/(v+u), 1e-12) {
+		t.Errorf("with clock motion: tau %g s, want d/v_rel = %g s (%v)", c.Tau, 1e7/(v+u), err)
 	}
 }
 
@@ -190,6 +195,7 @@ func TestLinearApproximationBound(t *testing.T) {
 		for trial := range 4 {
 			tr := circularOrbit(a, 55*math.Pi/180, 2*math.Pi*rng.Float64(), 2*math.Pi*rng.Float64())
 			w := effWall(randomUnit(rng), 3e5, d, 0, 1e9, 1e11, ProfileGaussian)
+			w.ClockMotion = true // compared with the exact path integral, which includes the clock's motion
 			c, err := w.Cross("G", "rb", tr)
 			if err != nil {
 				t.Fatal(err)

@@ -31,8 +31,9 @@
 //
 // # Profiles
 //
-// With the time-like coordinate u = (t − t_c)/τ, τ = d/v_rel (u = −x/d in the
-// approximation below), the clock sees
+// With the time-like coordinate u = (t − t_c)/τ, τ = d/v (physics.md §3.2:
+// the clock sees φ²(v⊥·(t − t_j)); u = −x/d in the approximation below), the
+// clock sees
 //
 //	δν/ν(t) = Γ·Aⁿ·s(u),   X(t) = ∫_{−∞}^{t} δν/ν dt′ = Γ·Aⁿ·τ·S(u)
 //
@@ -47,7 +48,11 @@
 //
 // (physics.md §1.1, §3.2, §3.6). d sits in φ², not in φ, for the Gaussian
 // (papers differ by √2 in d). The bias step is ΔT = Γ·Aⁿ·τ·C_p; for the
-// Gaussian ΔT = √π·Γ·A²·d/v_rel (physics.md §3.3). The linear kink has no
+// Gaussian ΔT = √π·Γ·A²·d/v (physics.md §3.3), the same for every clock of
+// one sensitivity. Wall.ClockMotion instead uses each clock's relative
+// normal speed, τ = d/v_rel with v_rel = v − N·ṙ(t_c): the time the clock
+// really spends in a thin wall, 1.3 % different for GPS satellites at
+// 300 km/s. The crossing time t_c always includes the clock's motion. The linear kink has no
 // step: its bias ramps at Δy = 2·Γ·A after the crossing and asymptotes to
 // Δy·(t − t_c) exactly (its Step is NaN).
 //

@@ -19,6 +19,11 @@ type Wall struct {
 	Profile   Profile
 	A2        float64 // squared field amplitude A², GeV² (see AmplitudeSpec.Resolve)
 	Coupling  Coupling
+	// ClockMotion makes each clock's crossing time scale τ = d/v_rel with
+	// its own relative normal speed v_rel = v − N·ṙ, instead of the
+	// default τ = d/v of physics.md §3.2 (the same for every clock). The
+	// crossing time itself always includes the clock's motion.
+	ClockMotion bool
 }
 
 // Validate reports a wall that cannot be rendered.

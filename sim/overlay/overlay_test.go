@@ -97,8 +97,8 @@ func TestWallChangesOnlyBiases(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if res.Changed < 5000 {
-		t.Errorf("only %d records changed by a 1 ns wall in mid-file", res.Changed)
+	if res.Changed < 500 {
+		t.Errorf("only %d records changed by a 1 ns wall in mid-file (each series changes between its own crossing and the reference's)", res.Changed)
 	}
 	out, err := ParseClockFile("out", res.Data)
 	if err != nil {
