@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"strings"
 	"testing"
 )
 
@@ -54,4 +55,35 @@ func BenchmarkFitSigmoid(b *testing.B) {
 		}
 	}
 	b.ReportMetric(float64(b.N)/b.Elapsed().Seconds(), "fits/s")
+}
+
+// BenchmarkReadClocks: clocks.csv coverage reading, one day at 30 s with
+// 60 clocks (one cell in 50 empty).
+func BenchmarkReadClocks(b *testing.B) {
+	var sb strings.Builder
+	sb.WriteString("t_s")
+	for j := range 60 {
+		fmt.Fprintf(&sb, ",C%02d", j)
+	}
+	sb.WriteByte('\n')
+	for k := range 2880 {
+		fmt.Fprintf(&sb, "%d", 30*k)
+		for j := range 60 {
+			if (k*60+j)%50 == 0 {
+				sb.WriteByte(',')
+				continue
+			}
+			fmt.Fprintf(&sb, ",%.6e", 1e-9*float64((k+j)%17))
+		}
+		sb.WriteByte('\n')
+	}
+	data := sb.String()
+	b.SetBytes(int64(len(data)))
+	for b.Loop() {
+		var tr Truth
+		if err := tr.clocksFrom(strings.NewReader(data), "clocks.csv"); err != nil {
+			b.Fatal(err)
+		}
+	}
+	b.ReportMetric(2880*float64(b.N)/b.Elapsed().Seconds(), "epochs/s")
 }

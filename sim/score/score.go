@@ -206,7 +206,8 @@ func Score(tr *Truth, cands []Candidate, opt Options) (*Result, error) {
 	cells := map[cellKey]*cellAcc{}
 	var cellOrder []cellKey
 	res.Events = nev
-	var usableStats []float64 // stat of each found usable injection's candidate
+	res.Matches = make([]MatchRow, 0, nev+len(cands))
+	usableStats := make([]float64, 0, nev) // stat of each matched usable injection's candidate
 	for k, e := range tr.Events {
 		gap[k] = tr.InGap(e.T0, half)
 		ci := evCand[k]
@@ -287,7 +288,7 @@ func Score(tr *Truth, cands []Candidate, opt Options) (*Result, error) {
 	// Candidates without an injection.
 	days := res.Span / 86400
 	res.Candidates = len(cands)
-	var falseStats []float64
+	falseStats := make([]float64, 0, len(cands))
 	for _, ci := range order {
 		c := cands[ci]
 		if counts(c.Stat) {
