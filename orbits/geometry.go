@@ -102,6 +102,9 @@ func (g *Geometry) EarthFixedErr(i int, t Time) ([3]float64, error) {
 		return nanVec, fmt.Errorf("orbits: geometry: clock index %d outside [0, %d)", i, len(g.ids))
 	}
 	if i < len(g.orbits) {
+		if k, ok := g.orbits[i].(*Kepler); ok && k.prepared && k.Covers(t) {
+			return k.Pos(t), nil // position-only path
+		}
 		p, _, err := g.orbits[i].PosVel(t)
 		if err != nil {
 			return nanVec, err

@@ -248,8 +248,11 @@ func (k *Kepler) Pos(t Time) [3]float64 {
 	if err != nil {
 		return nanVec
 	}
-	p, _ := kk.posVel(t.Sub(k.Toe))
-	return p
+	if kk.GEO {
+		p, _ := kk.posVel(t.Sub(k.Toe))
+		return p
+	}
+	return kk.pos(t.Sub(k.Toe))
 }
 
 func (k *Kepler) posVel(tk float64) (pos, vel [3]float64) {
@@ -322,4 +325,34 @@ func (k *Kepler) posVel(tk float64) (pos, vel [3]float64) {
 		ypd*si + yp*ci*idot,
 	}
 	return pos, vel
+}
+
+// pos is posVel without the velocity, for non-GEO records (same steps).
+func (k *Kepler) pos(tk float64) [3]float64 {
+	e := k.Ecc
+	_, se, ce := solveKepler(k.M0+k.n*tk, e)
+	den := 1 - e*ce
+	iden := 1 / den
+	snu, cnu := k.q*se*iden, (ce-e)*iden
+	sphi, cphi := snu*k.cw+cnu*k.sw, cnu*k.cw-snu*k.sw
+	s2, c2 := 2*sphi*cphi, cphi*cphi-sphi*sphi
+	du := k.Cus*s2 + k.Cuc*c2
+	var su, cu float64
+	if math.Abs(du) < 0.05 {
+		sd, cd := sinCosSmall(du)
+		su, cu = sphi*cd+cphi*sd, cphi*cd-sphi*sd
+	} else {
+		su, cu = math.Sincos(math.Atan2(sphi, cphi) + du)
+	}
+	r := k.a*den + k.Crs*s2 + k.Crc*c2
+	var si, ci float64
+	if dInc := k.Cis*s2 + k.Cic*c2 + k.IDot*tk; math.Abs(dInc) < 0.05 {
+		sd, cd := sinCosSmall(dInc)
+		si, ci = k.si0*cd+k.ci0*sd, k.ci0*cd-k.si0*sd
+	} else {
+		si, ci = math.Sincos(k.I0 + dInc)
+	}
+	xp, yp := r*cu, r*su
+	so, co := math.Sincos(k.Omega0 + (k.OmegaD-k.omegaE)*tk - k.omegaE*k.toeSOW)
+	return [3]float64{xp*co - yp*ci*so, xp*so + yp*ci*co, yp * si}
 }

@@ -111,6 +111,11 @@ func TestKeplerVelocityIsDerivative(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
+			// The position-only path equals PosVel's position (same steps).
+			pv, _, _ := k.PosVel(tm)
+			if pp := k.Pos(tm); norm([3]float64{pp[0] - pv[0], pp[1] - pv[1], pp[2] - pv[2]}) > 1e-7 {
+				t.Errorf("%s: Pos %v, PosVel %v", id, pp, pv)
+			}
 			const h = 0.5
 			p1, p2 := k.Pos(tm.Add(-h)), k.Pos(tm.Add(h))
 			for i := range 3 {
