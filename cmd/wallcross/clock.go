@@ -146,13 +146,22 @@ func parseHSet(s string) (map[noise.Term]float64, error) {
 	return out, nil
 }
 
-// writeWideCSV writes t_s and one phase column.
+// writeWideCSV writes t_s and one phase column. When the step is a whole
+// number of nanoseconds, t_s is printed exactly from integer nanoseconds
+// (0.1 s steps give 0.3, not 0.30000000000000004).
 func writeWideCSV(w io.Writer, tau0 float64, id string, x []float64) error {
 	bw := bufio.NewWriter(w)
 	fmt.Fprintf(bw, "t_s,%s\n", id)
+	stepNs := int64(math.Round(tau0 * 1e9))
+	exactNs := stepNs > 0 && math.Abs(float64(stepNs)/1e9-tau0) <= 1e-15*tau0
 	var buf []byte
 	for k, v := range x {
-		buf = strconv.AppendFloat(buf[:0], float64(k)*tau0, 'g', -1, 64)
+		buf = buf[:0]
+		if exactNs {
+			buf = appendNsSeconds(buf, int64(k)*stepNs)
+		} else {
+			buf = strconv.AppendFloat(buf, float64(k)*tau0, 'g', -1, 64)
+		}
 		buf = append(buf, ',')
 		buf = strconv.AppendFloat(buf, v, 'g', -1, 64)
 		buf = append(buf, '\n')
@@ -161,4 +170,18 @@ func writeWideCSV(w io.Writer, tau0 float64, id string, x []float64) error {
 		}
 	}
 	return bw.Flush()
+}
+
+// appendNsSeconds appends t (ns ≥ 0) as decimal seconds without trailing zeros.
+func appendNsSeconds(buf []byte, t int64) []byte {
+	buf = strconv.AppendInt(buf, t/1_000_000_000, 10)
+	frac := t % 1_000_000_000
+	if frac == 0 {
+		return buf
+	}
+	d := []byte(fmt.Sprintf(".%09d", frac))
+	for d[len(d)-1] == '0' {
+		d = d[:len(d)-1]
+	}
+	return append(buf, d...)
 }

@@ -130,3 +130,19 @@ func TestClockPresetLevels(t *testing.T) {
 		}
 	}
 }
+
+func TestClockTimeColumn(t *testing.T) {
+	out := filepath.Join(t.TempDir(), "t.csv")
+	if code, _, errb := runCLI(t, "clock", "--h", "h0=1e-24", "--span", "1s", "--step", "100ms", "--out", out); code != exitOK {
+		t.Fatalf("exit %d: %s", code, errb)
+	}
+	b, _ := os.ReadFile(out)
+	lines := strings.Split(strings.TrimSpace(string(b)), "\n")
+	if len(lines) != 11 || !strings.HasPrefix(lines[4], "0.3,") || !strings.HasPrefix(lines[10], "0.9,") {
+		t.Errorf("time column: %q", lines)
+	}
+	s, err := readSeries(out, 0)
+	if err != nil || s[0].Tau0 != 0.1 || len(s[0].Data) != 10 {
+		t.Errorf("read back: %v, %+v", err, s)
+	}
+}
