@@ -125,6 +125,9 @@ type Dataset struct {
 	Seed uint64
 	// Scenario is the resolved scenario as JSON (may be nil).
 	Scenario json.RawMessage
+	// LinkLevel holds the link delays and the network clock estimate when
+	// the scenario has a links section (nil otherwise).
+	LinkLevel *LinkLevel
 }
 
 // gpsEpoch is 1980-01-06 00:00:00 in Go's leap-second-free calendar, which

@@ -261,6 +261,12 @@ func Run(cfg Config, opts Options) (*Dataset, error) {
 		}
 	}
 
+	// The observation level starts from every clock's own phase.
+	var own []float64
+	if s.Links != nil {
+		own = append([]float64(nil), d.Bias...)
+	}
+
 	// Phase B: the reference series, then b_j = x_j − x_ref row by row.
 	refSeries := make([]float64, nep)
 	schedule := append([]ReferenceChange{{Epoch: 0, Reference: ref}}, changes...)
@@ -314,6 +320,14 @@ func Run(cfg Config, opts Options) (*Dataset, error) {
 		d.Nuisances = append(d.Nuisances, Nuisance{Kind: "reference_change", Clock: strings.Join(rc.Reference.Clocks, "+"), T: d.EpochSeconds(rc.Epoch)})
 	}
 	sort.SliceStable(d.Crossings, func(a, b int) bool { return d.Crossings[a].Event < d.Crossings[b].Event })
+
+	if s.Links != nil {
+		progress("observations and network clock estimation")
+		if d.LinkLevel, err = linkLevel(d, s, geo, walls, own, seed, opts.Trial); err != nil {
+			return nil, err
+		}
+		progress("%d observations, %d links with a wall delay", d.LinkLevel.Observations, len(d.LinkLevel.Links))
+	}
 
 	if !opts.NoOrbits && len(sats) > 0 {
 		if d.Orbits, err = sampleSP3(geo, sats, start, span, step, opts.SP3Interval, seed); err != nil {
@@ -606,6 +620,12 @@ func ownPhase(d *Dataset, s *scenarios.Scenario, geo *orbits.Geometry, p clockPl
 			}
 			r.err = fmt.Errorf("sim: wall %d, clock %s: %w", walls[wi].ID, p.id, err)
 			return r
+		}
+		if !s.Walls.RespondsToWalls() {
+			// The clock itself does not respond (only the link delay
+			// may carry the wall): the crossing is recorded, its step is 0.
+			r.crossings = append(r.crossings, Crossing{Event: c.Event, Clock: p.id, TCross: c.TCross, Step: 0})
+			continue
 		}
 		st := c.Step()
 		r.crossings = append(r.crossings, Crossing{Event: c.Event, Clock: p.id, TCross: c.TCross, Step: st})

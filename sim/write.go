@@ -99,6 +99,9 @@ func WriteDir(dir string, d *Dataset, opt WriteOptions) (paths []string, err err
 		{EventsFile, false, WriteEventsCSV},
 		{CrossingsFile, false, WriteCrossingsCSV},
 		{NuisancesFile, false, WriteNuisancesCSV},
+		{LinksFile, d.LinkLevel == nil, WriteLinksCSV},
+		{EstimatedCSVFile, d.LinkLevel == nil || d.LinkLevel.Estimated == nil, WriteEstimatedCSV},
+		{EstimatedRinex, opt.SkipRINEX || d.LinkLevel == nil || d.LinkLevel.Estimated == nil, WriteEstimatedRinex},
 	}
 	for _, j := range jobs {
 		if j.skip {
@@ -265,8 +268,15 @@ func WriteEventsCSV(path string, d *Dataset) (FileSum, error) {
 		}
 	}
 	return writeAtomic(path, func(w *bufio.Writer) error {
-		b := []byte("event,t0_s,nx,ny,nz,speed_m_s,thickness_m,profile,lambda_eff_gev,peak_dnu\n")
-		for _, e := range d.Events {
+		b := []byte("event,t0_s,nx,ny,nz,speed_m_s,thickness_m,profile,lambda_eff_gev,peak_dnu")
+		var peak []float64
+		if d.LinkLevel != nil && len(d.LinkLevel.PeakIndex) == len(d.Events) {
+			// The observation level adds each wall's peak n − 1.
+			peak = d.LinkLevel.PeakIndex
+			b = append(b, ",peak_index"...)
+		}
+		b = append(b, '\n')
+		for i, e := range d.Events {
 			b = strconv.AppendInt(b, int64(e.ID), 10)
 			b = append(b, ',')
 			b = strconv.AppendFloat(b, e.T0, 'f', -1, 64)
@@ -283,6 +293,10 @@ func WriteEventsCSV(path string, d *Dataset) (FileSum, error) {
 			for _, v := range []float64{e.LambdaEffGeV, e.PeakDnu} {
 				b = append(b, ',')
 				b = strconv.AppendFloat(b, v, 'g', -1, 64)
+			}
+			if peak != nil {
+				b = append(b, ',')
+				b = strconv.AppendFloat(b, peak[i], 'g', -1, 64)
 			}
 			b = append(b, '\n')
 			if _, err := w.Write(b); err != nil {
