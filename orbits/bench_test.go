@@ -89,3 +89,24 @@ func BenchmarkGeometry(b *testing.B) {
 		b.ReportMetric(float64(n)/b.Elapsed().Seconds(), "clock-epochs/s")
 	})
 }
+
+// BenchmarkCelestialMatrix compares the direct and the tabulated frame.
+func BenchmarkCelestialMatrix(b *testing.B) {
+	ep := FromCalendar(2026, 1, 1, 0, 0, 0)
+	for _, c := range []struct {
+		name string
+		f    Frame
+	}{{"direct", Frame{}}, {"tabulated", Frame{}.Tabulate(ep, 86400)}} {
+		b.Run(c.name, func(b *testing.B) {
+			n := 0
+			var sink float64
+			for b.Loop() {
+				m := c.f.CelestialMatrix(ep.Add(float64(n%2880) * 30))
+				sink += m[0][0]
+				n++
+			}
+			b.ReportMetric(float64(n)/b.Elapsed().Seconds(), "epochs/s")
+			_ = sink
+		})
+	}
+}

@@ -36,6 +36,54 @@ import "math"
 type Frame struct {
 	// DUT1 is UT1 − UTC in seconds (default 0).
 	DUT1 float64
+
+	tab *frameTable // optional precession-nutation table (see Tabulate)
+}
+
+// frameTable holds the precession-nutation matrix and the equation of the
+// equinoxes at daily nodes; it is immutable once built.
+type frameTable struct {
+	t0    Time // first node
+	nodes []frameNode
+}
+
+type frameNode struct {
+	npb  Mat3    // GCRS → true equator and equinox of date
+	eqeq float64 // Δψ·cos εA, rad
+}
+
+const frameTableStep = nsPerDay / 2
+
+// Tabulate returns a copy of f that interpolates the precession-nutation
+// part of the transformation linearly between nodes 12 h apart covering
+// [start, start+span] (span in seconds); epochs outside fall back to the
+// direct computation. The Earth rotation (ERA/GMST) is always computed
+// exactly. Interpolation error is below 0.002″ (0.0008″ measured by
+// TestFrameTabulated, ≈ 0.1 m at GPS radius), far inside the model's 0.03″. The table is
+// immutable and shared by copies, so the Frame stays safe for concurrent use.
+func (f Frame) Tabulate(start Time, span float64) Frame {
+	if !(span >= 0) || span > 200*365.25*86400 {
+		return f
+	}
+	t0 := Time(floorDiv(int64(start), frameTableStep) * frameTableStep)
+	n := int((int64(start.Add(span))-int64(t0))/frameTableStep) + 2
+	tab := &frameTable{t0: t0, nodes: make([]frameNode, n)}
+	for i := range tab.nodes {
+		t := t0 + Time(int64(i)*frameTableStep)
+		npb, eqeq := npbAt(t)
+		tab.nodes[i] = frameNode{npb, eqeq}
+	}
+	f.tab = tab
+	return f
+}
+
+// npbAt returns the precession-nutation matrix and the equation of the
+// equinoxes at t.
+func npbAt(t Time) (Mat3, float64) {
+	tt := ttCenturies(t)
+	g, p, s, e := fwAngles(tt)
+	dpsi, deps := nutation(tt)
+	return fw2m(g, p, s+dpsi, e+deps), dpsi * math.Cos(e)
 }
 
 const (
@@ -185,11 +233,22 @@ func nutation(tt float64) (dpsi, deps float64) {
 // CelestialMatrix returns the matrix M with r_cel = M·r_ef at GPS epoch t
 // (model in the Frames section above).
 func (f Frame) CelestialMatrix(t Time) Mat3 {
-	tt := ttCenturies(t)
-	g, p, s, e := fwAngles(tt)
-	dpsi, deps := nutation(tt)
-	npb := fw2m(g, p, s+dpsi, e+deps) // GCRS → true equator and equinox of date
-	gst := GMST(t, f.DUT1) + dpsi*math.Cos(e)
+	var npb Mat3 // GCRS → true equator and equinox of date
+	var eqeq float64
+	if tb := f.tab; tb != nil && t >= tb.t0 && int64(t-tb.t0)/frameTableStep+1 < int64(len(tb.nodes)) {
+		k := int64(t-tb.t0) / frameTableStep
+		w := float64(int64(t-tb.t0)-k*frameTableStep) / float64(frameTableStep)
+		a, b := &tb.nodes[k], &tb.nodes[k+1]
+		for i := range 3 {
+			for j := range 3 {
+				npb[i][j] = a.npb[i][j] + w*(b.npb[i][j]-a.npb[i][j])
+			}
+		}
+		eqeq = a.eqeq + w*(b.eqeq-a.eqeq)
+	} else {
+		npb, eqeq = npbAt(t)
+	}
+	gst := GMST(t, f.DUT1) + eqeq
 	// r_ef = R3(gst)·npb·r_cel  ⇒  r_cel = npbᵀ·R3(−gst)·r_ef.
 	r := mul(rotZ(gst), npb)
 	var m Mat3

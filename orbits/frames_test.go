@@ -192,3 +192,33 @@ func TestGeodeticAgainstPyprojAndErfa(t *testing.T) {
 		t.Error("inconsistent station accepted")
 	}
 }
+
+func TestFrameTabulated(t *testing.T) {
+	// The tabulated frame must match the direct computation (identity up to
+	// the linear interpolation of precession-nutation over 12 h).
+	start := FromCalendar(2026, 3, 1, 0, 0, 0)
+	f := Frame{DUT1: 0.1}
+	ft := f.Tabulate(start, 40*86400)
+	// Measured on vectors (max element difference of the matrices, i.e. the
+	// largest displacement of a unit vector component): the trace formula of
+	// rotationAngle misreads the ~1e-14 shrinkage of an interpolated matrix.
+	worst := 0.0
+	for k := range 4000 {
+		tm := start.Add(float64(k)*40*86400/4000 + 0.37)
+		a, b := ft.CelestialMatrix(tm), f.CelestialMatrix(tm)
+		for i := range 3 {
+			for j := range 3 {
+				worst = math.Max(worst, math.Abs(a[i][j]-b[i][j]))
+			}
+		}
+	}
+	if worst > 2e-3*arcsec { // 0.002″ ≈ 0.25 m at GPS radius
+		t.Errorf("tabulated frame off by %.2g″", worst/arcsec)
+	}
+	t.Logf("tabulated vs direct: worst %.2g″", worst/arcsec)
+	// Outside the table: the direct computation.
+	out := start.Add(-86400)
+	if ft.CelestialMatrix(out) != f.CelestialMatrix(out) {
+		t.Error("outside the table the result differs")
+	}
+}

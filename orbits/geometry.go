@@ -10,11 +10,14 @@ import (
 // or celestial. It is immutable after construction and safe for concurrent
 // use.
 //
-// Cost (measured by BenchmarkGeometry): satellites are propagated directly
-// at each call (a Keplerian record costs ~0.1 µs; a GLONASS record, by RK4
-// from tb, up to ~2 µs); the celestial rotation costs ~0.5 µs per call of
-// Celestial. CelestialAll computes the rotation once per epoch for all
-// clocks and is the path for per-sample work.
+// Cost (BenchmarkKepler, BenchmarkCelestialMatrix, BenchmarkGeometry on
+// this shared 2-core machine under load, where one math.Sincos took
+// ~40 ns): satellites are propagated directly at each call — a Keplerian
+// record ~0.2 µs, a GLONASS record by RK4 from tb up to ~2–5 µs; the
+// celestial rotation ~2.6 µs per call with Frame{} and ~0.6 µs with a
+// tabulated frame (Frame.Tabulate over the run's span, recommended for
+// per-sample work). CelestialAll computes the rotation once per epoch for
+// all clocks.
 type Geometry struct {
 	ids      []string
 	orbits   []Orbit
