@@ -16,7 +16,7 @@ import (
 
 func newClockCmd() *command {
 	fs := newFlagSet("clock")
-	family := fs.String("family", "", "clock family preset `NAME` (see the list below)")
+	family := fs.String("family", "", "clock family preset `NAME` (listed in the help text)")
 	hs := fs.String("h", "", "power-law levels `KEY=VAL,...` with keys h+2,h+1,h0,h-1,h-2 (S_y = Σ h_α f^α, h_α in Hz^(-α-1)); added to or replacing the preset's")
 	drift := fs.String("drift", "", "linear frequency drift `RATE`, e.g. 1e-14/d or 1e-19/s (replaces the preset's)")
 	freqOff := fs.Float64("freq-offset", 0, "fractional frequency offset y0 (dimensionless)")
