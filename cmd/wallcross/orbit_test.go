@@ -100,3 +100,20 @@ func TestOrbitCommandErrors(t *testing.T) {
 		t.Error("an output file was left after a failure")
 	}
 }
+
+func TestParseCLIDuration(t *testing.T) {
+	for _, c := range []struct {
+		in   string
+		want float64
+	}{{"5m", 300}, {"6h", 21600}, {"1h30m", 5400}, {"1d", 86400}, {"1.5d", 129600}, {"300 s", 300}, {"2 h", 7200}, {"30s", 30}} {
+		got, err := parseCLIDuration(c.in)
+		if err != nil || got != c.want {
+			t.Errorf("parseCLIDuration(%q) = %g, %v; want %g s", c.in, got, err, c.want)
+		}
+	}
+	for _, bad := range []string{"", "5", "5 m", "soon"} {
+		if _, err := parseCLIDuration(bad); err == nil {
+			t.Errorf("parseCLIDuration(%q) accepted", bad)
+		}
+	}
+}
