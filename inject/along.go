@@ -17,8 +17,8 @@ import (
 // the pulse is not negligible (|u| ≤ 7 Gaussian, 20 kinks; the top-hat is
 // integrated exactly between its edge crossings, solved like the centre).
 // The part accumulated before the first epoch, if the pulse has already
-// begun there, is taken as for a clock at rest at its first-epoch position,
-// (d/v)·S(u(t₀)), which only shifts the whole series by a constant.
+// begun there, is taken from the closed form (Crossing.PhaseAt), which only
+// shifts the whole series by a constant.
 
 // alongTail is the |u| beyond which the along-trajectory integral skips the pulse.
 func alongTail(p Profile) float64 {
@@ -41,6 +41,10 @@ func gl5() (x, wt [5]float64) {
 	return [5]float64{-0.9061798459386640, -0.5384693101056831, 0, 0.5384693101056831, 0.9061798459386640},
 		[5]float64{0.2369268850561891, 0.4786286704993665, 0.5688888888888889, 0.4786286704993665, 0.2369268850561891}
 }
+
+// The integral always includes the clock's motion, as Wall.ClockMotion does
+// for the closed form; for a default wall (τ = d/v) the two differ by the
+// factor v/v_rel in the pulse width.
 
 // RenderPhaseAlong adds the clock's phase perturbation in s at each of times
 // (strictly increasing, s since the run start) to dst, integrating the
@@ -81,18 +85,20 @@ func RenderPhaseAlong(dst, times []float64, w *Wall, c Crossing, tr Trajectory) 
 		if t, _, err := e.solve(tr); err == nil {
 			return t
 		}
-		return c.TCross + 2*off*c.Tau // trajectory not covering the edge: a wide guess
+		// Trajectory not covering the edge: the top-hat takes the linear
+		// approximation's edge, the smooth pulses a wide window.
+		if p == ProfileTopHat {
+			return c.TCross + off*c.Tau
+		}
+		return c.TCross + 2*off*c.Tau
 	}
 	tlo, thi := edge(-L), edge(L)
 	u0 := u(times[0])
 	if !finite(u0) {
 		return fmt.Errorf("inject: render phase along: trajectory not finite at t=%g s", times[0])
 	}
-	// Before the first epoch: a clock at rest at its first-epoch position.
-	x := c.Scale * (d / v) * p.Cumulative(u0)
-	if u0 < -L {
-		x = 0
-	}
+	// Before the first epoch: the closed form (linear approximation).
+	x := c.PhaseAt(times[0])
 	xg, wg := gl5()
 	h := math.Min(c.Tau/10, maxAlongPiece)
 	integrate := func(a, b float64) float64 { // ∫_a^b δν/ν dt for a < b

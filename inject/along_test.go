@@ -186,3 +186,34 @@ func TestAlongOrbitAveraging(t *testing.T) {
 		t.Errorf("closed form within %.2g of the averaged step: the test geometry does not probe the effect", worstClosed)
 	}
 }
+
+// A trajectory covering only the epochs (NaN outside, as an ephemeris
+// interpolant may be): the top-hat edge outside the coverage falls back to
+// the linear approximation's edge, so the rendering still matches the closed
+// form for uniform motion.
+func TestAlongEdgeOutsideCoverage(t *testing.T) {
+	w := effWall([3]float64{1, 0, 0}, 3e5, 3e7, 0, 1e9, 1e11, ProfileTopHat)
+	w.ClockMotion = true // the closed form then includes the clock's motion, exact for uniform motion
+	full := func(t float64) [3]float64 { return [3]float64{1e7 - 2e3*t, 0, 0} }
+	c, err := w.Cross("U", "rb", full)
+	if err != nil {
+		t.Fatal(err)
+	}
+	start := c.TCross // the entry edge (t_c − τ/2) lies before the coverage
+	tr := func(t float64) [3]float64 {
+		if t < start-1 {
+			return [3]float64{math.NaN(), math.NaN(), math.NaN()}
+		}
+		return full(t)
+	}
+	times := []float64{start, start + 30, start + 60, start + 200}
+	got := make([]float64, len(times))
+	if err := RenderPhaseAlong(got, times, &w, c, tr); err != nil {
+		t.Fatal(err)
+	}
+	for k := range times {
+		if want := c.PhaseAt(times[k]); !scalar.EqualWithinAbs(got[k], want, 1e-9*math.Abs(c.Step())) {
+			t.Errorf("X(%g s) = %g s, closed form %g s", times[k], got[k], want)
+		}
+	}
+}

@@ -52,9 +52,9 @@
 // one sensitivity. Wall.ClockMotion instead uses each clock's relative
 // normal speed, τ = d/v_rel with v_rel = v − N·ṙ(t_c): the time the clock
 // really spends in a thin wall, 1.3 % different for GPS satellites at
-// 300 km/s. The crossing time t_c always includes the clock's motion. The linear kink has no
-// step: its bias ramps at Δy = 2·Γ·A after the crossing and asymptotes to
-// Δy·(t − t_c) exactly (its Step is NaN).
+// 300 km/s. The crossing time t_c always includes the clock's motion. The
+// linear kink has no step: its bias ramps at Δy = 2·Γ·A after the crossing
+// and asymptotes to Δy·(t − t_c) exactly (its Step is NaN).
 //
 // # Amplitude
 //
@@ -93,7 +93,10 @@
 // # Approximation within a crossing
 //
 // Rendering treats the clock's distance to the wall as linear in time near
-// the crossing, x(t) ≈ −v_rel·(t − t_c). The neglected term is the clock's
+// the crossing: by default x(t) ≈ −v·(t − t_c), the clock's motion kept only
+// in t_c (an error of at most |N·ṙ|/v, 1.3 % of the pulse width for GPS
+// satellites at 300 km/s); with Wall.ClockMotion x(t) ≈ −v_rel·(t − t_c),
+// whose error is second order. The term neglected there is the clock's
 // acceleration along N, |a_N| ≤ a_max (GM/r² = 0.56 m/s² for a GPS orbit,
 // 0.034 m/s² for a station): over |t − t_c| ≤ kτ the position error is
 // |δx| ≤ a_max·(kτ)²/2, i.e. |δu| ≤ a_max·k²·d/(2·v_rel²), and the local

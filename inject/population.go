@@ -65,8 +65,9 @@ type Population struct {
 	Profile      Profile
 	Amplitude    AmplitudeSpec // MeanInterval 0 there means this population's
 	Coupling     Coupling
-	FirstID      int // id of the first wall; later ones count up
-	MaxEvents    int // 0: DefaultMaxEvents
+	ClockMotion  bool // sets Wall.ClockMotion on every wall (τ = d/v_rel per clock)
+	FirstID      int  // id of the first wall; later ones count up
+	MaxEvents    int  // 0: DefaultMaxEvents
 	// Explicit, if not empty, replaces the random draws: one wall per entry,
 	// in order, with this population's thickness, profile, amplitude and
 	// coupling (MeanInterval still sets T of a density amplitude). For tests
@@ -183,7 +184,7 @@ func (p Population) Sample(rng *rand.Rand) ([]Wall, error) {
 				return nil, fmt.Errorf("inject: explicit event %d: %w", i, err)
 			}
 			w := Wall{ID: p.FirstID + i, T0: e.T0, N: [3]float64{e.N[0] / nn, e.N[1] / nn, e.N[2] / nn}, Speed: e.Speed,
-				Thickness: p.Thickness, Profile: p.Profile, A2: a2, Coupling: p.Coupling}
+				Thickness: p.Thickness, Profile: p.Profile, A2: a2, Coupling: p.Coupling, ClockMotion: p.ClockMotion}
 			if err := w.Validate(); err != nil {
 				return nil, fmt.Errorf("inject: explicit event %d: %w", i, err)
 			}
@@ -212,7 +213,7 @@ func (p Population) Sample(rng *rand.Rand) ([]Wall, error) {
 			return nil, err
 		}
 		walls = append(walls, Wall{ID: p.FirstID + len(walls), T0: t, N: n, Speed: v,
-			Thickness: p.Thickness, Profile: p.Profile, A2: a2, Coupling: p.Coupling})
+			Thickness: p.Thickness, Profile: p.Profile, A2: a2, Coupling: p.Coupling, ClockMotion: p.ClockMotion})
 	}
 	return walls, nil
 }

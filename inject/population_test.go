@@ -231,6 +231,14 @@ func TestPopulationExplicit(t *testing.T) {
 	if len(walls) != 2 || walls[0].T0 != 100 || walls[0].N != [3]float64{0, 0, 1} || walls[1].ID != 2 || walls[1].Speed != 2e5 {
 		t.Fatalf("explicit walls %+v", walls)
 	}
+	if walls[0].ClockMotion {
+		t.Error("clock motion set without Population.ClockMotion")
+	}
+	p.ClockMotion = true
+	if cm, err := p.Sample(rand.New(rand.NewPCG(0, 0))); err != nil || !cm[0].ClockMotion || !cm[1].ClockMotion {
+		t.Errorf("Population.ClockMotion not passed to the walls (%v)", err)
+	}
+	p.ClockMotion = false
 	if math.Abs(vnorm(walls[1].N)-1) > 1e-15 {
 		t.Errorf("direction not normalised: %v", walls[1].N)
 	}
