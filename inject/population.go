@@ -265,8 +265,8 @@ func isotropic(rng *rand.Rand) [3]float64 {
 // Describe states the population model in one line, for the manifest.
 func (p Population) Describe() string {
 	if len(p.Explicit) > 0 {
-		return fmt.Sprintf("%d explicit walls; profile %s, thickness %g m, amplitude %s",
-			len(p.Explicit), p.Profile, p.Thickness, p.Amplitude.Mode)
+		return fmt.Sprintf("%d explicit walls; profile %s, thickness %g m, amplitude %s, clock motion in τ %t",
+			len(p.Explicit), p.Profile, p.Thickness, p.Amplitude.Mode, p.ClockMotion)
 	}
 	orbit := "off"
 	if p.Halo.EarthOrbit {
@@ -279,7 +279,7 @@ func (p Population) Describe() string {
 	sv := p.Halo.SunPeculiar
 	return fmt.Sprintf("Poisson arrivals, mean interval %g s, over [%g, %g) s; standard halo model v0 %g km/s, %s, "+
 		"solar peculiar (U,V,W) (%g, %g, %g) km/s, Earth orbit %s; wall normal %s, flux-weighted %t, "+
-		"min normal speed %g km/s; profile %s, thickness %g m, amplitude %s",
+		"min normal speed %g km/s; profile %s, thickness %g m, amplitude %s, clock motion in τ %t",
 		p.MeanInterval, -p.Margin, p.Span+p.Margin, p.Halo.V0/1e3, vesc, sv[0]/1e3, sv[1]/1e3, sv[2]/1e3, orbit,
-		p.Orientation, p.FluxWeighted, p.minSpeed()/1e3, p.Profile, p.Thickness, p.Amplitude.Mode)
+		p.Orientation, p.FluxWeighted, p.minSpeed()/1e3, p.Profile, p.Thickness, p.Amplitude.Mode, p.ClockMotion)
 }
