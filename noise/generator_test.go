@@ -246,24 +246,6 @@ func TestSteeringSuppressesWander(t *testing.T) {
 	}
 }
 
-func TestSmoothLen(t *testing.T) {
-	for _, c := range [][2]int{{1, 1}, {7, 8}, {11, 12}, {2 << 20, 2 << 20}, {2000001, 2000000 + 25}, {1000, 1000}, {1001, 1024}} {
-		got := SmoothLen(c[0])
-		r := got
-		for _, p := range []int{2, 3, 5} {
-			for r%p == 0 {
-				r /= p
-			}
-		}
-		if got < c[0] || r != 1 {
-			t.Errorf("SmoothLen(%d) = %d not a 5-smooth number ≥ n", c[0], got)
-		}
-		if c[0] <= 1001 && got != c[1] {
-			t.Errorf("SmoothLen(%d) = %d, want %d", c[0], got, c[1])
-		}
-	}
-}
-
 // ExampleClockModel_Phase generates one day of a GPS IIF Rb clock at 30 s
 // and prints its overlapping ADEV at 300 s next to the preset's expectation.
 func ExampleClockModel_Phase() {

@@ -25,30 +25,6 @@ func KasdinImpulse(a float64, n int) []float64 {
 	return h
 }
 
-// SmoothLen returns the smallest L ≥ n whose only prime factors are 2, 3
-// and 5, the lengths for which gonum's FFTPACK transform is fast.
-func SmoothLen(n int) int {
-	if n <= 1 {
-		return 1
-	}
-	best := 1
-	for best < n {
-		best *= 2
-	}
-	for p5 := 1; p5 < best; p5 *= 5 {
-		for p35 := p5; p35 < best; p35 *= 3 {
-			l := p35
-			for l < n {
-				l *= 2
-			}
-			if l < best {
-				best = l
-			}
-		}
-	}
-	return best
-}
-
 // flickerConv holds the convolution buffers for the a = 1 Kasdin filter.
 // Its zh (impulse-response spectrum) and zv buffers may be kept between
 // calls of the same length (see Generator).
