@@ -115,3 +115,64 @@ func FuzzReadSP3(f *testing.F) {
 		}
 	})
 }
+
+func TestMalformedInline(t *testing.T) {
+	hdr4 := "     4.00           N: GNSS NAV DATA    M: MIXED            RINEX VERSION / TYPE\n" +
+		"                                                            END OF HEADER\n"
+	hdr3 := "     3.04           NAVIGATION DATA     M                   RINEX VERSION / TYPE\n" +
+		"                                                            END OF HEADER\n"
+	hdr2 := "     2              NAVIGATION DATA                         RINEX VERSION / TYPE\n" +
+		"                                                            END OF HEADER\n"
+	g02 := "G02 2022 06 08 10 00 00-6.528543308377E-04 3.410605131648E-13 0.000000000000E+00\n"
+	orbit := "     9.600000000000E+01 3.384375000000E+01 4.106242470052E-09-2.157708626665E+00\n"
+	for _, c := range []struct {
+		name, data string
+		want       []string
+	}{
+		{"v4 truncated", hdr4 + "> EPH G02 LNAV\n", []string{"x:3:", "truncated: no SV / EPOCH line"}},
+		{"v4 short record", hdr4 + "> EPH G02 LNAV\n" + g02 + orbit + orbit, []string{"x:4:", "G02 record has 2 broadcast orbit lines, want 7"}},
+		{"v4 wrong satellite", hdr4 + "> EPH G03 LNAV\n" + g02, []string{"x:4:", `names "G02", the record header "G03"`}},
+		{"v4 no >", hdr4 + g02, []string{"x:3:", "starting with '>'"}},
+		{"v3 unknown system", hdr3 + "X01 2022 06 08 10 00 00\n", []string{"x:3:", "satellite id"}},
+		{"v3 bad epoch", hdr3 + "G02 2022 13 08 10 00 00-6.528543308377E-04 3.410605131648E-13 0.000000000000E+00\n" +
+			strings.Repeat(orbit, 7), []string{"x:3:", "out of range"}},
+		{"v2 bad prn", hdr2 + "xx 21  4 28 17 59 44.0\n", []string{"x:3:", "bad satellite number"}},
+		{"no end of header", "     3.04           NAVIGATION DATA     M                   RINEX VERSION / TYPE\n", []string{"x:1:", "END OF HEADER"}},
+		{"not rinex", "hello\n", []string{"x:1:", "RINEX VERSION / TYPE"}},
+		{"empty", "", []string{"x:1:", "empty file"}},
+	} {
+		_, err := ReadNavFrom(strings.NewReader(c.data), "x")
+		if err == nil {
+			t.Errorf("%s: no error", c.name)
+			continue
+		}
+		for _, w := range c.want {
+			if !strings.Contains(err.Error(), w) {
+				t.Errorf("%s: error %q lacks %q", c.name, err, w)
+			}
+		}
+	}
+	sp3hdr := "#dP2021  4 28  0  0  0.00000000       1 ORBIT IGb14 FIT AIUB\n## 2155 259200.00000000   300.00000000 59332 0.0000000000000\n" +
+		"+    1   G01  0  0  0  0  0  0  0  0  0  0  0  0  0  0  0  0\n"
+	for _, c := range []struct {
+		name, data string
+		want       []string
+	}{
+		{"P before epoch", sp3hdr + "PG01  13287.682546 -15491.926575  16545.690647    703.963460\nEOF\n", []string{"y:4:", "unexpected header line", "want %c, %f, %i, /* or an epoch line"}},
+		{"unknown satellite", sp3hdr + "*  2021  4 28 18  0  0.00000000\nPG02  13287.682546 -15491.926575  16545.690647    703.963460\nEOF\n", []string{"y:5:", `"G02" is not in the header`}},
+		{"epochs not increasing", sp3hdr + "*  2021  4 28 18  0  0.00000000\n*  2021  4 28 17  0  0.00000000\nEOF\n", []string{"y:5:", "not after the previous epoch"}},
+		{"bad epoch", sp3hdr + "*  2021 14 28 18  0  0.00000000\nEOF\n", []string{"y:4:", "out of range"}},
+		{"short P line", sp3hdr + "*  2021  4 28 18  0  0.00000000\nPG01  13287.682546\nEOF\n", []string{"y:5:", "bad number"}},
+	} {
+		_, err := ReadSP3(strings.NewReader(c.data), "y")
+		if err == nil {
+			t.Errorf("%s: no error", c.name)
+			continue
+		}
+		for _, w := range c.want {
+			if !strings.Contains(err.Error(), w) {
+				t.Errorf("%s: error %q lacks %q", c.name, err, w)
+			}
+		}
+	}
+}
