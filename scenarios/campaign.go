@@ -50,6 +50,9 @@ type Campaign struct {
 	Grid CampaignGrid `yaml:"grid"`
 	// Match sets how candidates are matched to the injection.
 	Match CampaignMatch `yaml:"match,omitempty"`
+	// Search sets the bank of the in-process reference search (ignored
+	// with an external pipeline).
+	Search CampaignSearch `yaml:"search,omitempty"`
 
 	file string // where the campaign was read from
 }
@@ -74,6 +77,23 @@ type CampaignMatch struct {
 	// DirectionTol, when set, also requires the candidate's direction
 	// within this angle of the truth.
 	DirectionTol Angle `yaml:"direction_tol,omitempty"`
+}
+
+// CampaignSearch is the reference search's bank in campaign trials; zero
+// values take the search's defaults (package sim/search).
+type CampaignSearch struct {
+	// Directions is the number of wall directions (default: from the
+	// timing resolution, at most 2000).
+	Directions int `yaml:"directions,omitempty"`
+	// Speeds are the speed classes (default 150–700 km/s in 8 steps).
+	Speeds []Speed `yaml:"speeds,omitempty"`
+	// Thickness classes; 0 m is the thin wall (default [0 m]).
+	Thickness []Length `yaml:"thickness,omitempty"`
+	// Whiten is the AR whitening order (default 0).
+	Whiten int `yaml:"whiten,omitempty"`
+	// Threshold is the smallest |SNR| reported (default 3, so that the
+	// background trials measure the statistic's tail).
+	Threshold float64 `yaml:"threshold,omitempty"`
 }
 
 // File returns the path the campaign was read from ("" for a built-in).
@@ -227,6 +247,21 @@ func (c *Campaign) validate(v *validator) {
 	}
 	for i, q := range g.LambdaEff {
 		v.positive(fmt.Sprintf("grid.lambda_eff[%d]", i), q.quantity, DimEnergy)
+	}
+	if c.Search.Directions < 0 || c.Search.Directions > 100000 {
+		v.add("search.directions", "must be 0 (default) to 100000, got %d", c.Search.Directions)
+	}
+	for i, q := range c.Search.Speeds {
+		v.positive(fmt.Sprintf("search.speeds[%d]", i), q.quantity, DimSpeed)
+	}
+	for i, q := range c.Search.Thickness {
+		v.nonNegative(fmt.Sprintf("search.thickness[%d]", i), q.quantity, DimLength)
+	}
+	if c.Search.Whiten < 0 || c.Search.Whiten > 8 {
+		v.add("search.whiten", "must be 0 to 8, got %d", c.Search.Whiten)
+	}
+	if v.finite("search.threshold", c.Search.Threshold) && c.Search.Threshold < 0 {
+		v.add("search.threshold", "must not be negative, got %g", c.Search.Threshold)
 	}
 	v.positive("match.window", c.Match.Window.quantity, DimTime)
 	v.positive("match.direction_tol", c.Match.DirectionTol.quantity, DimAngle)

@@ -11,6 +11,7 @@ import (
 
 	"wallcross/scenarios"
 	"wallcross/sim/campaign"
+	"wallcross/sim/search"
 )
 
 func newCampaignCmd() *command {
@@ -89,28 +90,34 @@ Campaign file (YAML, quantities with units):
 			} else if ok {
 				shard, sharded = s, true
 			}
-			var pipe campaign.Pipeline = selfSearch{}
+			var pipe campaign.Pipeline
+			pipeName := "reference search (sim/search, in process)"
 			if *pipeline != "" {
 				pipe = campaign.Command(*pipeline)
+				pipeName = pipe.String()
 			}
 			if err := os.MkdirAll(*out, 0o755); err != nil {
 				return err
 			}
-			runner := &campaign.SimRunner{Plan: plan, Base: base, BaseDir: baseDir, Pipeline: pipe, Keep: *keep}
+			// The reference search reports candidates down to |SNR| 3, so
+			// that the background trials measure the statistic's tail;
+			// the campaign threshold is set later from that background.
+			runner := &campaign.SimRunner{Plan: plan, Base: base, BaseDir: baseDir, Pipeline: pipe, Keep: *keep,
+				Search: campaignSearch(c)}
 			if *keep {
 				runner.TempDir = filepath.Join(*out, "trials")
 				if err := os.MkdirAll(runner.TempDir, 0o755); err != nil {
 					return err
 				}
 			}
-			opt := campaign.Options{Workers: *workers, Progress: stderr, Pipeline: pipe.String(), Hash: c.Hash(src),
+			opt := campaign.Options{Workers: *workers, Progress: stderr, Pipeline: pipeName, Hash: c.Hash(src),
 				Settings: campaign.Settings{Trials: plan.Trials, PerCell: c.Trials, Background: c.Background,
 					FalseAlarm: c.FalseAlarm, Threshold: c.Threshold, Cells: cells, Profile: base.Walls.Profile,
 					SpanDays: c.Window.Seconds() / 86400}}
 			ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
 			defer stop()
 			fmt.Fprintf(stderr, "campaign %s: %d cells × %d trials + %d background = %d trials; shard %s; pipeline %s\n",
-				c.Name, len(plan.Cells), c.Trials, c.BackgroundTrials, plan.Trials, shard, pipe)
+				c.Name, len(plan.Cells), c.Trials, c.BackgroundTrials, plan.Trials, shard, pipeName)
 			ran, err := campaign.RunShard(ctx, plan, runner, shard, *out, opt)
 			if err != nil {
 				return err
@@ -208,27 +215,22 @@ a single-process run.`,
 	}
 }
 
-// selfSearch runs this binary's search command as the pipeline.
-type selfSearch struct{}
-
-func (selfSearch) String() string { return "reference search (wallcross search)" }
-
-func (selfSearch) Search(ctx context.Context, dataset, candidates string) error {
-	exe, err := os.Executable()
-	if err != nil {
-		return err
+// campaignSearch is the in-process reference search of a campaign.
+func campaignSearch(c *scenarios.Campaign) search.Config {
+	cs := c.Search
+	cfg := search.Config{Threshold: cs.Threshold, Directions: cs.Directions, Whiten: cs.Whiten, Workers: 1}
+	if cfg.Threshold == 0 {
+		cfg.Threshold = campaignSearchThreshold
 	}
-	return campaign.Command(shellQuoteArg(exe)+" search {dataset} --out {candidates}").Search(ctx, dataset, candidates)
+	for _, v := range cs.Speeds {
+		cfg.Speeds = append(cfg.Speeds, v.MetresPerSecond())
+	}
+	for _, d := range cs.Thickness {
+		cfg.Thicknesses = append(cfg.Thicknesses, d.Metres())
+	}
+	return cfg
 }
 
-func shellQuoteArg(s string) string {
-	out := "'"
-	for _, r := range s {
-		if r == '\'' {
-			out += `'\''`
-		} else {
-			out += string(r)
-		}
-	}
-	return out + "'"
-}
+// campaignSearchThreshold is the lowest |SNR| the in-process reference
+// search reports in campaign trials.
+const campaignSearchThreshold = 3

@@ -13,6 +13,7 @@ import (
 	"wallcross/scenarios"
 	"wallcross/sim"
 	"wallcross/sim/score"
+	"wallcross/sim/search"
 )
 
 // Pipeline runs a search on a dataset directory and writes its candidate
@@ -55,10 +56,13 @@ func lastLines(s string, n int) string {
 // SimRunner makes each trial's dataset with package sim from the base
 // scenario, runs the pipeline on it and scores the candidates.
 type SimRunner struct {
-	Plan     *Plan
-	Base     *scenarios.Scenario
-	BaseDir  string // directory of relative paths in the base scenario
+	Plan    *Plan
+	Base    *scenarios.Scenario
+	BaseDir string // directory of relative paths in the base scenario
+	// Pipeline is the external pipeline; nil runs the reference search
+	// in process with Search as its settings.
 	Pipeline Pipeline
+	Search   search.Config
 	TempDir  string // where trial datasets are written (default os.TempDir)
 	Keep     bool   // keep trial datasets (debugging)
 }
@@ -166,8 +170,22 @@ func (r *SimRunner) RunTrial(ctx context.Context, t Trial) (Outcome, error) {
 		return Outcome{}, err
 	}
 	cands := filepath.Join(dir, "candidates.csv")
-	if err := r.Pipeline.Search(ctx, dir, cands); err != nil {
-		return Outcome{}, err
+	if r.Pipeline != nil {
+		if err := r.Pipeline.Search(ctx, dir, cands); err != nil {
+			return Outcome{}, err
+		}
+	} else {
+		net, err := search.FromDataset(ds)
+		if err != nil {
+			return Outcome{}, err
+		}
+		res, err := search.Search(net, r.Search)
+		if err != nil {
+			return Outcome{}, err
+		}
+		if err := search.WriteCandidatesFile(cands, res.Candidates); err != nil {
+			return Outcome{}, err
+		}
 	}
 	return scoreTrial(dir, cands, c, t)
 }
