@@ -9,8 +9,8 @@ cd "$(dirname "$0")/.."
 ROOT=$PWD
 export DEBIAN_FRONTEND=noninteractive
 if ! command -v slurmctld >/dev/null || ! command -v munged >/dev/null; then
-	apt-get update -qq
-	apt-get install -y -qq --no-install-recommends slurm-wlm munge >/dev/null
+	apt-get -o DPkg::Lock::Timeout=600 update -qq
+	apt-get -o DPkg::Lock::Timeout=600 install -y -qq --no-install-recommends slurm-wlm munge >/dev/null
 fi
 
 RUN=$(mktemp -d /tmp/wallcross-slurm.XXXXXX)
