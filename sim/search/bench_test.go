@@ -44,3 +44,21 @@ func BenchmarkSearchDay(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkScanDirection times the bank scan of one direction (8 speeds,
+// thin walls, one t0 per interval) on the day network: the kernel alone,
+// without the once-per-dataset preparation.
+func BenchmarkScanDirection(b *testing.B) {
+	s, err := newSearcher(benchNetwork(), Config{Directions: 64, Thicknesses: []float64{0}, T0Substeps: 1})
+	if err != nil {
+		b.Fatal(err)
+	}
+	w := s.newWorker()
+	d := 0
+	for b.Loop() {
+		s.scanDirection(w, d%len(s.dirs))
+		d++
+	}
+	evals := float64(len(s.cfg.Speeds)*s.nScan()) * float64(s.nT0)
+	b.ReportMetric(evals*float64(b.N)/b.Elapsed().Seconds(), "evals/s")
+}

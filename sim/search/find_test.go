@@ -14,7 +14,7 @@ import (
 func TestSearchFindsWall(t *testing.T) {
 	trials, dirs := 6, 0 // 0: the default bank (≈ 1,750 directions here)
 	if raceEnabled {
-		trials, dirs = 2, 700
+		trials, dirs = 2, 400
 	}
 	var dirErr []float64
 	for trial := range trials {

@@ -34,6 +34,11 @@ type Network struct {
 	Pos func(clock int, t float64) [3]float64
 }
 
+// maxBias bounds |bias| (s): far beyond any clock product (receiver clocks
+// stay within ~1 ms, common practice), small enough that sums of squares
+// cannot overflow.
+const maxBias = 1e6
+
 // Epochs returns the number of epochs.
 func (n *Network) Epochs() int {
 	if len(n.Bias) == 0 {
@@ -62,8 +67,8 @@ func (n *Network) Validate() error {
 			return fmt.Errorf("search: clock %q has %d epochs, want %d", n.Clocks[j].ID, len(b), e)
 		}
 		for k, v := range b {
-			if math.IsInf(v, 0) {
-				return fmt.Errorf("search: clock %q epoch %d: bias %g s is infinite", n.Clocks[j].ID, k, v)
+			if math.IsInf(v, 0) || math.Abs(v) > maxBias {
+				return fmt.Errorf("search: clock %q epoch %d: bias %g s is not finite or exceeds %g s", n.Clocks[j].ID, k, v, maxBias)
 			}
 		}
 	}

@@ -17,6 +17,7 @@ type searcher struct {
 	pos    [][][3]float64  // [scan clock][epoch] celestial position, m
 	k      [][]float64     // [coupling][scan clock] sensitivity K
 	kg     [][]float64     // [coupling][scan clock] K/τ0, the thin-wall spike, 1/s
+	phased bool            // some kernel depends on the crossing phase (thick walls)
 	kern   [][]kernelTable // [speed][thickness]
 	dirs   [][3]float64
 	m0     int     // first t0 grid point: t0 = (m0 + m)·dt0
@@ -65,7 +66,7 @@ type worker struct {
 	x       []float64   // [scan clock × blockLen] crossing time, intervals since the first epoch
 	ci      []int32     // [scan clock × blockLen] crossing interval
 	ph      []uint8     // [scan clock × blockLen] crossing phase bin
-	g, q, r []float64   // per-t0 interval buffers: Σ m·K·g, Σ m·(K·g)², reference K·g
+	g, r    []float64   // per-t0 interval buffers: Σ m·K·g, reference K·g
 	best    []float64   // per t0: largest |ρ|
 	bestID  []int       // per t0: its template id (−1: none)
 	bestNum []float64   // per t0: its numerator
@@ -82,7 +83,7 @@ func (s *searcher) newWorker() *worker {
 		w.proj[c] = make([]float64, s.nEpoch)
 	}
 	b := 2*s.half + 1
-	w.g, w.q, w.r = make([]float64, b), make([]float64, b), make([]float64, b)
+	w.g, w.r = make([]float64, b), make([]float64, b)
 	w.best = make([]float64, s.nT0)
 	w.bestID = make([]int, s.nT0)
 	w.bestNum = make([]float64, s.nT0)
@@ -168,7 +169,9 @@ func (s *searcher) blockCrossings(w *worker, m0, nb int, invV float64) {
 			xs[mm] = x
 			fi := floorInt(x)
 			ci[mm] = int32(fi)
-			ph[mm] = uint8(min(int((x-float64(fi))*phaseBins), phaseBins-1))
+			if s.phased {
+				ph[mm] = uint8(min(int((x-float64(fi))*phaseBins), phaseBins-1))
+			}
 		}
 	}
 }
@@ -216,17 +219,17 @@ func (s *searcher) scanDirection(w *worker, d int) {
 					blo := max(0, s.half-reach+kt.lo)
 					bhi := min(2*s.half, s.half+reach+kt.lo+kt.n)
 					for cl := range s.cfg.Couplings {
-						num := s.accumulate(w, &s.prep.data, kt, cl, mm, base)
-						den := s.denominator(w, base, blo, bhi)
+						num, qtot := s.accumulate(w, &s.prep.data, kt, cl, mm, base)
+						den := s.denominator(w, base, blo, bhi, qtot)
 						id := s.templateID(d, vi, th, cl)
 						if w.visit != nil {
 							w.visit(m, id, num, den)
 							continue
 						}
-						if !(den > 0) {
+						stat := math.Abs(num) / math.Sqrt(den)
+						if !(den > 0) || math.IsNaN(stat) {
 							continue
 						}
-						stat := math.Abs(num) / math.Sqrt(den)
 						if better(stat, id, w.best[m], w.bestID[m]) {
 							w.best[m], w.bestID[m] = stat, id
 							w.bestNum[m], w.bestDen[m] = num, den
@@ -238,26 +241,28 @@ func (s *searcher) scanDirection(w *worker, d int) {
 	}
 }
 
-// denominator returns uᵀC⁻¹u from the interval buffers b ∈ [blo, bhi]
-// (interval base − half + b) and clears them. Per interval, with
+// denominator returns uᵀC⁻¹u from qtot = Σ_j Σ_k m_j(k)·g_j(k)² and the
+// interval buffers b ∈ [blo, bhi] (interval base − half + b) of
+// G = Σ_j m_j·g_j and R = g_r, which it clears. Per interval, with
 // u_j = g_j − g_r over the present clocks (Sherman–Morrison):
-// Σ_j m_j u_j² − γ(Σ_j m_j u_j)² = Q − 2RG + R²W − γ(G − RW)².
-func (s *searcher) denominator(w *worker, base, blo, bhi int) float64 {
-	den := 0.0
+// Σ_j m_j u_j² − γ(Σ_j m_j u_j)² = Q − 2RG + R²W − γ(G − RW)²,
+// and the Q terms sum to qtot.
+func (s *searcher) denominator(w *worker, base, blo, bhi int, qtot float64) float64 {
+	den := qtot
 	pr := s.prep
 	for b := blo; b <= bhi; b++ {
-		G, Q, R := w.g[b], w.q[b], w.r[b]
-		if G == 0 && Q == 0 && R == 0 {
+		G, R := w.g[b], w.r[b]
+		if G == 0 && R == 0 {
 			continue
 		}
-		w.g[b], w.q[b], w.r[b] = 0, 0, 0
+		w.g[b], w.r[b] = 0, 0
 		e := base - s.half + b
 		if e < 0 || e >= s.nInt {
 			continue
 		}
 		W := pr.w[e]
 		u := G - R*W
-		den += Q - 2*R*G + R*R*W - pr.gamma[e]*u*u
+		den += R*R*W - 2*R*G - pr.gamma[e]*u*u
 	}
 	return den
 }
@@ -283,18 +288,17 @@ func (s *searcher) evalOne(w *worker, ser *series, d, vi, th, cl, m int) (num, d
 	}
 	base := floorInt(t0 * invStep)
 	kt := &s.kern[vi][th]
-	num = s.accumulate(w, ser, kt, cl, 0, base)
-	return num, s.denominator(w, base, 0, 2*s.half)
+	num, qtot := s.accumulate(w, ser, kt, cl, 0, base)
+	return num, s.denominator(w, base, 0, 2*s.half, qtot)
 }
 
 // accumulate adds every scan clock's template (kernel kt, coupling cl) at
 // block position mm into the worker's interval buffers and returns the
 // numerator uᵀC⁻¹y. base is the interval of t0.
-func (s *searcher) accumulate(w *worker, ser *series, kt *kernelTable, cl, mm, base int) float64 {
+func (s *searcher) accumulate(w *worker, ser *series, kt *kernelTable, cl, mm, base int) (num, qtot float64) {
 	nInt := s.nInt
 	off := s.half - base
-	g, q := w.g, w.q
-	num := 0.0
+	g := w.g
 	if kt.n == 1 && kt.lo == 0 {
 		// Thin wall without AR filter: one interval per clock, value
 		// K/τ0 (s.kg).
@@ -308,9 +312,10 @@ func (s *searcher) accumulate(w *worker, ser *series, kt *kernelTable, cl, mm, b
 			}
 			x := zms[i*nd+c]
 			num += K * x.z
-			if b := i + off; x.m != 0 && uint(b) < uint(len(g)) {
-				g[b] += x.m * K
-				q[b] += x.m * K * K
+			mk := x.m * K
+			qtot += mk * K
+			if b := i + off; mk != 0 && uint(b) < uint(len(g)) {
+				g[b] += mk
 			}
 		}
 		if s.hasRef {
@@ -322,7 +327,7 @@ func (s *searcher) accumulate(w *worker, ser *series, kt *kernelTable, cl, mm, b
 				}
 			}
 		}
-		return num
+		return num, qtot
 	}
 	kc := s.k[cl]
 	zms, nd := ser.zm, ser.nd
@@ -345,9 +350,10 @@ func (s *searcher) accumulate(w *worker, ser *series, kt *kernelTable, cl, mm, b
 			kg := K * gv
 			x := zms[i*nd+c]
 			num += kg * x.z
-			if b := i + off; x.m != 0 && uint(b) < uint(len(g)) {
-				g[b] += x.m * kg
-				q[b] += x.m * kg * kg
+			mk := x.m * kg
+			qtot += mk * kg
+			if b := i + off; mk != 0 && uint(b) < uint(len(g)) {
+				g[b] += mk
 			}
 		}
 	}
@@ -371,7 +377,7 @@ func (s *searcher) accumulate(w *worker, ser *series, kt *kernelTable, cl, mm, b
 			}
 		}
 	}
-	return num
+	return num, qtot
 }
 
 // run scans all directions with a worker pool and merges the maxima.

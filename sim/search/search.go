@@ -126,6 +126,7 @@ func newSearcher(net *Network, cfg Config) (*searcher, error) {
 		for th, d := range c.Thicknesses {
 			kt := newKernel(c.Profile, d, v, net.Step, prep.noise.AR)
 			s.kern[vi][th] = kt
+			s.phased = s.phased || kt.phase > 1
 			ext = max(ext, -kt.lo, kt.lo+kt.n)
 		}
 	}
