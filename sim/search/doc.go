@@ -22,10 +22,14 @@
 //     of y_i − y_j (the common mode cancels in the difference). C⁻¹ is
 //     applied in closed form with the Sherman–Morrison formula
 //     (ApplyInverse), O(N) per interval, over the clocks present at that
-//     interval. Optionally each series is first whitened by its own AR(p)
-//     filter (Levinson–Durbin on the sample autocovariance), applied to data
-//     and templates alike; the common-mode term is then an approximation
-//     (the reference's noise passes through a different filter per clock).
+//     interval. Optionally (Config.Whiten = p) every series is first
+//     filtered by one shared AR(p) prediction-error filter A (Levinson–Durbin
+//     on the pooled sample autocovariance), and templates are filtered by
+//     the same A, so the statistic is (A·u)ᵀC⁻¹(A·y). A filter shared by all
+//     series keeps the common-mode term rank one (the reference's noise
+//     passes through the same A in every series); it whitens exactly only
+//     when the clocks' noise spectra have a common shape, which is why a
+//     per-clock filter is not used.
 //  3. Templates. For a wall of velocity direction n̂ (celestial frame),
 //     normal speed v, thickness d and geocentre time t0, clock j is crossed
 //     at t_j = t0 + n̂·r_j(t_j)/v (physics.md §3.1). The bank solves this

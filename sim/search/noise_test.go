@@ -159,3 +159,42 @@ func TestCandidateFileContract(t *testing.T) {
 		t.Fatal("writing into a missing directory succeeded")
 	}
 }
+
+// TestARWhitening: with AR(1)-correlated frequency noise (φ = 0.5), a thick
+// template's SNR has variance (1+φ)/(1−φ)-like excess without whitening and
+// ≈ 1 with the AR(1) whitening filter.
+func TestARWhitening(t *testing.T) {
+	rng := rand.New(rand.NewPCG(51, 52))
+	o := defaultSynth()
+	o.epochs = 1200
+	o.ar1 = 0.5
+	sn, phase := newSynth(rng, o)
+	sn.finish(rng, o, phase)
+	variance := func(whiten int) (float64, []float64) {
+		s, err := newSearcher(sn.net, Config{Directions: 20, Speeds: []float64{300e3}, Thicknesses: []float64{3e7}, Whiten: whiten})
+		if err != nil {
+			t.Fatal(err)
+		}
+		var xs []float64
+		w := s.newWorker()
+		w.visit = func(m, id int, num, den float64) {
+			if m%8 == 0 && den > 0 {
+				xs = append(xs, num/math.Sqrt(den))
+			}
+		}
+		for d := range s.dirs {
+			s.scanDirection(w, d)
+		}
+		v := 0.0
+		for _, x := range xs {
+			v += x * x
+		}
+		return v / float64(len(xs)), s.prep.noise.AR
+	}
+	v0, _ := variance(0)
+	v1, a := variance(1)
+	t.Logf("thick-template SNR variance: %.2f without whitening, %.2f with AR(1) filter %v", v0, v1, a)
+	if !(v0 > 1.8) || math.Abs(v1-1) > 0.2 || math.Abs(a[1]+0.5) > 0.05 {
+		t.Fatalf("variance %.2f (no whitening, want > 1.8), %.2f (AR(1), want ≈ 1), filter %v (want [1 −0.5])", v0, v1, a)
+	}
+}

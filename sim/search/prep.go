@@ -194,11 +194,11 @@ func filterAR(y, a []float64) []float64 {
 
 // series is the whitened data the scan correlates templates with.
 type series struct {
-	// zm[interval·nd + data clock]: z = Aᵀ·(C⁻¹·A·y) and weight m. Interval
+	// zm[interval·nd + data clock]: z = C⁻¹·A·y and weight m. Interval
 	// major, so the clocks a sweep touches at one t0 lie close in memory.
 	zm []zm
 	nd int       // data clocks
-	zr []float64 // reference: −Aᵀ·(1ᵀC⁻¹A·y)
+	zr []float64 // reference: −1ᵀC⁻¹A·y
 }
 
 // prepared holds the whitened data of a network, ready for the bank scan.
@@ -374,8 +374,8 @@ func prepare(net *Network, cfg *Config, window int) (*prepared, error) {
 	return p, nil
 }
 
-// whiten returns z = Aᵀ·C⁻¹·e for the filtered series e (NaN = absent),
-// the weights m, and the reference series −Aᵀ·1ᵀC⁻¹e.
+// whiten returns z = C⁻¹·e for the filtered series e = A·y (NaN = absent),
+// the weights m, and the reference series −1ᵀC⁻¹e.
 func whiten(es [][]float64, sig2 []float64, sr2 float64, a []float64) series {
 	nd, nInt := len(es), len(es[0])
 	zt := make([][]float64, nd)
@@ -403,28 +403,13 @@ func whiten(es [][]float64, sig2 []float64, sr2 float64, a []float64) series {
 		}
 		zrt[k] = -ysum / (1 + sr2*wsum) // −1ᵀC⁻¹e
 	}
-	// The adjoint filter Aᵀ: z(k) = Σ_l a[l]·z̃(k + l).
-	adj := func(x []float64) []float64 {
-		if len(a) == 1 {
-			return x
-		}
-		o := make([]float64, len(x))
-		for k := range x {
-			s := 0.0
-			for l, c := range a {
-				if k+l < len(x) {
-					s += c * x[k+l]
-				}
-			}
-			o[k] = s
-		}
-		return o
-	}
+	// The templates are filtered by A too (newKernel), so the numerator is
+	// (A·u)ᵀ·C⁻¹·(A·y): z is used as it is.
 	for i := range es {
-		for k, v := range adj(zt[i]) {
+		for k, v := range zt[i] {
 			out.zm[k*nd+i].z = v
 		}
 	}
-	out.zr = adj(zrt)
+	out.zr = zrt
 	return out
 }
