@@ -54,6 +54,32 @@ func BenchmarkKepler(b *testing.B) {
 	})
 }
 
+// BenchmarkKeplerGrid reports the grid propagator (PosGrid, 30 s steps).
+func BenchmarkKeplerGrid(b *testing.B) {
+	ep := FromCalendar(2026, 1, 1, 0, 0, 0)
+	ks := WalkerGPS(ep)
+	for _, k := range ks {
+		k.Ecc = 0.01
+		k.Crs, k.Cuc, k.Cis = 30, 1e-6, 1e-7
+		if err := k.Prepare(); err != nil {
+			b.Fatal(err)
+		}
+	}
+	dst := make([][3]float64, 2880)
+	n := 0
+	cpu0 := processCPUSeconds()
+	for b.Loop() {
+		for _, k := range ks {
+			k.PosGrid(ep, 30, dst)
+		}
+		n += len(ks) * len(dst)
+	}
+	b.ReportMetric(float64(n)/b.Elapsed().Seconds(), "sat-epochs/s")
+	if cpu := processCPUSeconds() - cpu0; cpu > 0 {
+		b.ReportMetric(float64(n)/cpu, "sat-epochs/cpu-s")
+	}
+}
+
 // BenchmarkGlonass reports RK4 propagation over 7.5 min (8 steps).
 func BenchmarkGlonass(b *testing.B) {
 	g := &Glonass{ID: "R01", Tb: FromCalendar(2020, 6, 25, 12, 0, 0),

@@ -17,7 +17,8 @@ import (
 // celestial rotation ~2.6 µs per call with Frame{} and ~0.6 µs with a
 // tabulated frame (Frame.Tabulate over the run's span, recommended for
 // per-sample work). CelestialAll computes the rotation once per epoch for
-// all clocks.
+// all clocks; EarthFixedGrid samples one clock on a regular grid with
+// Kepler.PosGrid (≈ 12 M satellite-epochs per CPU-second measured here).
 type Geometry struct {
 	ids      []string
 	orbits   []Orbit
@@ -202,4 +203,35 @@ func (g *Geometry) CelestialState(i int, t Time) (pos, vel [3]float64, err error
 	}
 	pos, vel = g.frame.ToCelestialVel(t, p, v)
 	return pos, vel, nil
+}
+
+// EarthFixedGrid writes the Earth-fixed positions (m) of clock i at
+// t0 + j·step seconds, j = 0 … len(dst)−1. Keplerian records whose fit
+// interval covers the whole grid use Kepler.PosGrid (about twice as fast as
+// per-epoch calls); other orbits are propagated epoch by epoch. On error
+// the entries not computed are NaN.
+func (g *Geometry) EarthFixedGrid(i int, t0 Time, step float64, dst [][3]float64) error {
+	if i < 0 || i >= len(g.ids) {
+		return fmt.Errorf("orbits: geometry: clock index %d outside [0, %d)", i, len(g.ids))
+	}
+	if len(dst) == 0 {
+		return nil
+	}
+	last := t0.Add(float64(len(dst)-1) * step)
+	if i < len(g.orbits) {
+		if k, ok := g.orbits[i].(*Kepler); ok && k.Covers(t0) && k.Covers(last) {
+			return k.PosGrid(t0, step, dst)
+		}
+	}
+	for j := range dst {
+		p, err := g.EarthFixedErr(i, t0.Add(float64(j)*step))
+		if err != nil {
+			for k := j; k < len(dst); k++ {
+				dst[k] = nanVec
+			}
+			return err
+		}
+		dst[j] = p
+	}
+	return nil
 }

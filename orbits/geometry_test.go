@@ -49,6 +49,23 @@ func TestGeometry(t *testing.T) {
 			}
 		}
 	}
+	// EarthFixedGrid equals EarthFixed epoch by epoch (satellite and station).
+	for _, i := range []int{3, 25} {
+		grid := make([][3]float64, 100)
+		if err := g.EarthFixedGrid(i, tm, 30, grid); err != nil {
+			t.Fatal(err)
+		}
+		for j, p := range grid {
+			q := g.EarthFixed(i, tm.Add(float64(j)*30))
+			if norm([3]float64{p[0] - q[0], p[1] - q[1], p[2] - q[2]}) > 1e-6 {
+				t.Fatalf("clock %s epoch %d: grid %v, direct %v", ids[i], j, p, q)
+			}
+		}
+	}
+	gs, _ := NewGeometry(nil, st, Frame{}) // stations only
+	if err := gs.EarthFixedGrid(0, tm, 30, make([][3]float64, 3)); err != nil {
+		t.Error(err)
+	}
 	if s, ok := g.Station(24); !ok || !s.Reference {
 		t.Error("station lookup")
 	}

@@ -329,8 +329,57 @@ func (k *Kepler) posVel(tk float64) (pos, vel [3]float64) {
 
 // pos is posVel without the velocity, for non-GEO records (same steps).
 func (k *Kepler) pos(tk float64) [3]float64 {
+	m := k.M0 + k.n*tk
+	if m > math.Pi || m < -math.Pi {
+		const twoPi, rTwoPi = 2 * math.Pi, 1 / (2 * math.Pi)
+		m -= twoPi * math.Floor(m*rTwoPi+0.5)
+	}
+	sm, cm := math.Sincos(m)
+	so, co := math.Sincos(k.Omega0 + (k.OmegaD-k.omegaE)*tk - k.omegaE*k.toeSOW)
+	return k.posFrom(tk, sm, cm, so, co)
+}
+
+// keplerSC solves Kepler's equation for δ = E − M given sin M and cos M
+// (same Newton scheme as solveKepler, written in δ so that no value of M
+// itself is needed) and returns sin E and cos E.
+func keplerSC(sm, cm, e float64) (se, ce float64) {
+	d := e * sm / (1 - e*cm)
+	if math.Abs(d) < 0.05 {
+		sd, cd := sinCosSmall(d)
+		se, ce = sm*cd+cm*sd, cm*cd-sm*sd
+	} else {
+		sd, cd := math.Sincos(d)
+		se, ce = sm*cd+cm*sd, cm*cd-sm*sd
+	}
+	for range 20 {
+		st := -(d - e*se) / (1 - e*ce) // f(δ) = δ − e·sin(M+δ)
+		d += st
+		switch a := math.Abs(st); {
+		case a > 0.05:
+			sd, cd := math.Sincos(d)
+			se, ce = sm*cd+cm*sd, cm*cd-sm*sd
+			continue
+		case a < 1e-4:
+			const r6 = 1.0 / 6
+			s2 := st * st
+			sd, cd := st*(1-s2*r6), 1-0.5*s2
+			se, ce = se*cd+ce*sd, ce*cd-se*sd
+		default:
+			sd, cd := sinCosSmall(st)
+			se, ce = se*cd+ce*sd, ce*cd-se*sd
+		}
+		if math.Abs(st) < 1e-8 {
+			break
+		}
+	}
+	return se, ce
+}
+
+// posFrom computes the position from tk and the sines and cosines of the
+// mean anomaly and of the node longitude Ωk (steps 4–10 of Table 20-IV).
+func (k *Kepler) posFrom(tk, sm, cm, so, co float64) [3]float64 {
 	e := k.Ecc
-	_, se, ce := solveKepler(k.M0+k.n*tk, e)
+	se, ce := keplerSC(sm, cm, e)
 	den := 1 - e*ce
 	iden := 1 / den
 	snu, cnu := k.q*se*iden, (ce-e)*iden
@@ -353,6 +402,46 @@ func (k *Kepler) pos(tk float64) [3]float64 {
 		si, ci = math.Sincos(k.I0 + dInc)
 	}
 	xp, yp := r*cu, r*su
-	so, co := math.Sincos(k.Omega0 + (k.OmegaD-k.omegaE)*tk - k.omegaE*k.toeSOW)
 	return [3]float64{xp*co - yp*ci*so, xp*so + yp*ci*co, yp * si}
+}
+
+// PosGrid writes the Earth-fixed positions (m) at t0 + j·step seconds,
+// j = 0 … len(dst)−1, into dst, without the fit-interval check (use Covers
+// on the first and last epoch). The mean anomaly and the node longitude
+// advance by exact rotations between epochs, recomputed every 64 epochs to
+// keep the rounding drift below 1e-14 rad, so most epochs need no library
+// sine at all (BenchmarkKepler/Grid). It returns an error for an invalid
+// record.
+func (k *Kepler) PosGrid(t0 Time, step float64, dst [][3]float64) error {
+	kk, err := k.ensure()
+	if err != nil {
+		return err
+	}
+	if kk.GEO {
+		for j := range dst {
+			dst[j], _ = kk.posVel(t0.Add(float64(j) * step).Sub(kk.Toe))
+		}
+		return nil
+	}
+	omd := kk.OmegaD - kk.omegaE
+	sdm, cdm := math.Sincos(kk.n * step)
+	sdo, cdo := math.Sincos(omd * step)
+	var sm, cm, so, co float64
+	for j := range dst {
+		tk := t0.Add(float64(j) * step).Sub(kk.Toe)
+		if j%64 == 0 {
+			m := kk.M0 + kk.n*tk
+			if m > math.Pi || m < -math.Pi {
+				const twoPi, rTwoPi = 2 * math.Pi, 1 / (2 * math.Pi)
+				m -= twoPi * math.Floor(m*rTwoPi+0.5)
+			}
+			sm, cm = math.Sincos(m)
+			so, co = math.Sincos(kk.Omega0 + omd*tk - kk.omegaE*kk.toeSOW)
+		} else {
+			sm, cm = sm*cdm+cm*sdm, cm*cdm-sm*sdm
+			so, co = so*cdo+co*sdo, co*cdo-so*sdo
+		}
+		dst[j] = kk.posFrom(tk, sm, cm, so, co)
+	}
+	return nil
 }

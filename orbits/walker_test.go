@@ -160,3 +160,32 @@ func ExampleWalker() {
 	fmt.Printf("%d satellites, %s radius %.1f km a year later\n", len(sats), sats[0].ID, norm(p)/1e3)
 	// Output: 24 satellites, E01 radius 29599.8 km a year later
 }
+
+func TestPosGrid(t *testing.T) {
+	// PosGrid (rotation recurrences) must equal Pos (direct) on every epoch.
+	ep := FromCalendar(2021, 4, 28, 18, 0, 0)
+	recs := []Kepler{
+		{ID: "G06", Toe: ep, Toc: ep, SqrtA: 5153.6, Ecc: 0.16, M0: 0.3, DeltaN: 4.5e-9, Omega0: -1.2, OmegaD: -8e-9,
+			Omega: 0.7, I0: 0.96, IDot: 3e-10, Cuc: 2e-6, Cus: 8e-6, Crc: 250, Crs: 30, Cic: 1e-7, Cis: -6e-8, FitHours: KeplerFitUnlimited},
+		{ID: "C03", Toe: ep, Toc: ep, SqrtA: 6493.4, Ecc: 0.0006, M0: 2, Omega0: 1, I0: 0.05, GEO: true, FitHours: KeplerFitUnlimited},
+		*WalkerGalileo(ep)[5],
+	}
+	for _, k := range recs {
+		if err := k.Prepare(); err != nil {
+			t.Fatal(err)
+		}
+		dst := make([][3]float64, 2880)
+		start := ep.Add(-7200.25)
+		if err := k.PosGrid(start, 30, dst); err != nil {
+			t.Fatal(err)
+		}
+		worst := 0.0
+		for j, p := range dst {
+			q := k.Pos(start.Add(float64(j) * 30))
+			worst = math.Max(worst, norm([3]float64{p[0] - q[0], p[1] - q[1], p[2] - q[2]}))
+		}
+		if worst > 1e-6 {
+			t.Errorf("%s: PosGrid differs from Pos by %.3g m", k.ID, worst)
+		}
+	}
+}
