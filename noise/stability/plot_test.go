@@ -2,20 +2,15 @@ package stability
 
 import (
 	"bytes"
-	"flag"
-	"image"
-	"image/png"
 	"math"
 	"os"
 	"path/filepath"
 	"testing"
+
+	"gonum.org/v1/plot/cmpimg"
 )
 
-// regen rewrites the golden image: go test ./noise/stability -run PlotGolden -regen
-// (the flag name gonum.org/v1/plot/cmpimg uses; cmpimg itself needs a go.sum
-// entry for rsc.io/pdf that the module does not carry yet, so the PNG
-// comparison is done here pixel by pixel, as cmpimg does for PNG).
-var regen = flag.Bool("regen", false, "rewrite testdata/*_golden.png")
+// The golden images are rewritten with go test -regen (gonum.org/v1/plot/cmpimg).
 
 // TestPlotGolden draws the OADEV and MDEV of the SP 1065 1000-point set with
 // the white-FM model σ_y = √(σ²/m), σ² = 1/12 (uniform data), and compares
@@ -34,7 +29,7 @@ func TestPlotGolden(t *testing.T) {
 		t.Fatal(err)
 	}
 	golden := filepath.Join("testdata", "oadev_plot_golden.png")
-	if *regen {
+	if *cmpimg.GenerateTestData {
 		if err := os.WriteFile(golden, buf.Bytes(), 0o644); err != nil {
 			t.Fatal(err)
 		}
@@ -47,33 +42,15 @@ func TestPlotGolden(t *testing.T) {
 	if bytes.Equal(buf.Bytes(), want) {
 		return
 	}
-	gi, err1 := png.Decode(bytes.NewReader(buf.Bytes()))
-	wi, err2 := png.Decode(bytes.NewReader(want))
-	if err1 != nil || err2 != nil {
-		t.Fatalf("decode: %v %v", err1, err2)
+	ok, err := cmpimg.Equal("png", buf.Bytes(), want)
+	if err != nil {
+		t.Fatal(err)
 	}
-	if !samePixels(gi, wi) {
+	if !ok {
 		keep := filepath.Join(t.TempDir(), "oadev_plot_got.png")
 		os.WriteFile(keep, buf.Bytes(), 0o644)
 		t.Errorf("plot differs from %s; got image kept at %s", golden, keep)
 	}
-}
-
-func samePixels(a, b image.Image) bool {
-	if a.Bounds() != b.Bounds() {
-		return false
-	}
-	r := a.Bounds()
-	for y := r.Min.Y; y < r.Max.Y; y++ {
-		for x := r.Min.X; x < r.Max.X; x++ {
-			r1, g1, b1, a1 := a.At(x, y).RGBA()
-			r2, g2, b2, a2 := b.At(x, y).RGBA()
-			if r1 != r2 || g1 != g2 || b1 != b2 || a1 != a2 {
-				return false
-			}
-		}
-	}
-	return true
 }
 
 func TestPlotErrors(t *testing.T) {

@@ -2,19 +2,16 @@ package score
 
 import (
 	"bytes"
-	"flag"
-	"image"
-	"image/png"
 	"math"
 	"math/rand/v2"
 	"os"
 	"path/filepath"
 	"testing"
+
+	"gonum.org/v1/plot/cmpimg"
 )
 
-// regen rewrites the golden images: go test ./sim/score -run Golden -regen
-// (the same flag name as gonum.org/v1/plot/cmpimg).
-var regen = flag.Bool("regen", false, "rewrite the golden plots in testdata")
+// The golden images are rewritten with go test -regen (gonum.org/v1/plot/cmpimg).
 
 // checkGolden compares the PNG at got with testdata/name pixel by pixel
 // (the comparison gonum's cmpimg makes for PNG), or replaces the golden
@@ -26,7 +23,7 @@ func checkGolden(t *testing.T, got, name string) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if *regen {
+	if *cmpimg.GenerateTestData {
 		if err := os.WriteFile(golden, b, 0o644); err != nil {
 			t.Fatal(err)
 		}
@@ -39,33 +36,15 @@ func checkGolden(t *testing.T, got, name string) {
 	if bytes.Equal(b, want) {
 		return
 	}
-	ig, err1 := png.Decode(bytes.NewReader(b))
-	iw, err2 := png.Decode(bytes.NewReader(want))
-	if err1 != nil || err2 != nil {
-		t.Fatalf("decode: %v %v", err1, err2)
+	ok, err := cmpimg.Equal("png", b, want)
+	if err != nil {
+		t.Fatal(err)
 	}
-	if !samePixels(ig, iw) {
+	if !ok {
 		keep := filepath.Join(t.TempDir(), name)
 		os.WriteFile(keep, b, 0o644)
 		t.Errorf("%s differs from its golden image; got image kept at %s", name, keep)
 	}
-}
-
-func samePixels(a, b image.Image) bool {
-	if a.Bounds() != b.Bounds() {
-		return false
-	}
-	r := a.Bounds()
-	for y := r.Min.Y; y < r.Max.Y; y++ {
-		for x := r.Min.X; x < r.Max.X; x++ {
-			r1, g1, b1, a1 := a.At(x, y).RGBA()
-			r2, g2, b2, a2 := b.At(x, y).RGBA()
-			if r1 != r2 || g1 != g2 || b1 != b2 || a1 != a2 {
-				return false
-			}
-		}
-	}
-	return true
 }
 
 // synthEff draws (seeded) a two-thickness efficiency table from known
