@@ -50,6 +50,10 @@ type Options struct {
 	// SP3Interval is the epoch interval of orbits.sp3, s (0: 300 s, rounded
 	// up to a multiple of the sample interval).
 	SP3Interval float64
+	// Presets, when non-nil, holds already calibrated noise presets by
+	// family (noise.Preset), so that many runs (campaign trials) calibrate
+	// each family once; missing families are calibrated as usual.
+	Presets map[string]noise.ClockModel
 }
 
 // SeedStream returns the random generator of one purpose ("noise",
@@ -173,6 +177,9 @@ func Run(cfg Config, opts Options) (*Dataset, error) {
 		presets := map[string]noise.ClockModel{} // Preset calibrates: once per family
 		for i := range plans {
 			m, ok := presets[plans[i].family]
+			if !ok {
+				m, ok = opts.Presets[plans[i].family]
+			}
 			if !ok {
 				var err error
 				if m, err = noise.Preset(plans[i].family); err != nil {

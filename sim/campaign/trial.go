@@ -8,8 +8,10 @@ import (
 	"os/exec"
 	"path/filepath"
 	"strings"
+	"sync"
 
 	"wallcross/inject"
+	"wallcross/noise"
 	"wallcross/scenarios"
 	"wallcross/sim"
 	"wallcross/sim/score"
@@ -65,6 +67,34 @@ type SimRunner struct {
 	Search   search.Config
 	TempDir  string // where trial datasets are written (default os.TempDir)
 	Keep     bool   // keep trial datasets (debugging)
+
+	presetsOnce sync.Once
+	presets     map[string]noise.ClockModel
+	presetsErr  error
+}
+
+// calibrated returns the noise presets of every family in the base
+// scenario, calibrated once for the whole campaign.
+func (r *SimRunner) calibrated() (map[string]noise.ClockModel, error) {
+	r.presetsOnce.Do(func() {
+		r.presets = map[string]noise.ClockModel{}
+		fams := map[string]bool{}
+		for _, c := range r.Base.Constellations {
+			fams[c.Clock] = true
+		}
+		for _, st := range r.Base.Stations {
+			fams[st.Clock] = true
+		}
+		for f := range fams {
+			m, err := noise.Preset(f)
+			if err != nil {
+				r.presetsErr = err
+				return
+			}
+			r.presets[f] = m
+		}
+	})
+	return r.presets, r.presetsErr
 }
 
 // trialSpec is what one trial injects, drawn from its own stream.
@@ -147,7 +177,11 @@ const daySlides = 3
 func (r *SimRunner) RunTrial(ctx context.Context, t Trial) (Outcome, error) {
 	c := r.Plan.Campaign
 	s, sp := r.Scenario(t)
-	ds, err := sim.Run(sim.Config{Scenario: s, BaseDir: r.BaseDir}, sim.Options{Seed: c.Seed, Trial: t.ID, Workers: 1, SP3Interval: 300})
+	presets, err := r.calibrated()
+	if err != nil {
+		return Outcome{}, err
+	}
+	ds, err := sim.Run(sim.Config{Scenario: s, BaseDir: r.BaseDir}, sim.Options{Seed: c.Seed, Trial: t.ID, Workers: 1, SP3Interval: 300, Presets: presets})
 	if err != nil {
 		return Outcome{}, err
 	}
@@ -166,7 +200,7 @@ func (r *SimRunner) RunTrial(ctx context.Context, t Trial) (Outcome, error) {
 	if !r.Keep {
 		defer os.RemoveAll(dir)
 	}
-	if _, err := sim.WriteDir(dir, ds, sim.WriteOptions{SkipRINEX: true}); err != nil {
+	if _, err := sim.WriteDir(dir, ds, sim.WriteOptions{SkipRINEX: true, SkipNPY: r.Pipeline == nil}); err != nil {
 		return Outcome{}, err
 	}
 	cands := filepath.Join(dir, "candidates.csv")
