@@ -66,7 +66,7 @@
 // Speeds: geometric steps from 150 to 700 km/s, 8 classes (a relative step
 // of ≈ 1.25 shifts the outermost lag by ≈ half a sample at 300 km/s).
 // Thicknesses: 0 (thin) by default; thick classes (Config.Thicknesses) use
-// kernels spanning ±3τ, τ = d/v. t0: Config.T0Substeps grid points per
+// kernels spanning ±2τ, τ = d/v. t0: Config.T0Substeps grid points per
 // sample interval (default 2).
 //
 // # Cost model

@@ -256,12 +256,12 @@ func prepare(net *Network, cfg *Config, window int) (*prepared, error) {
 		}
 		return total, nil
 	}
-	// clipped returns copies of ys winsorised at Clip robust σ.
 	// clipped returns copies of ys winsorised at Clip robust σ, except
-	// samples that are coherent: at least cfg.Coincidence other clocks also
-	// exceed Clip σ within ±window intervals (a sweep). A wall's spikes
-	// (and the reference's own crossing, common to every series) survive;
-	// single-clock outliers and phase jumps are clipped.
+	// samples that are coherent: at least cfg.Coincidence distinct other
+	// clocks also exceed Clip σ within ±window intervals (a sweep); those
+	// are clipped only at 3× the others' Coincidence-th largest peak. A
+	// wall's spikes (and the reference's own crossing, common to every
+	// series) survive; single-clock outliers and phase jumps are clipped.
 	clipped := func(ys [][]float64, total []float64) [][]float64 {
 		out := make([][]float64, len(ys))
 		if !(cfg.Clip > 0) {
@@ -270,44 +270,49 @@ func prepare(net *Network, cfg *Config, window int) (*prepared, error) {
 			}
 			return out
 		}
-		// exceed[k]: clocks exceeding at interval k; prefix sums over k.
-		exc := make([][]bool, len(ys))
-		cum := make([]int, nInt+1)
+		// cum[i][k]: clock i's exceedances of Clip σ before interval k.
+		cum := make([][]int32, len(ys))
 		for i, y := range ys {
 			c := cfg.Clip * total[i]
-			exc[i] = make([]bool, nInt)
+			cu := make([]int32, nInt+1)
 			for k, v := range y {
+				cu[k+1] = cu[k]
 				if math.Abs(v) > c {
-					exc[i][k] = true
+					cu[k+1]++
 				}
 			}
+			cum[i] = cu
 		}
-		for k := range nInt {
-			n := 0
-			for i := range ys {
-				if exc[i][k] {
-					n++
-				}
-			}
-			cum[k+1] = cum[k] + n
-		}
+		peaks := make([]float64, 0, len(ys))
 		for i, y := range ys {
 			o := slices.Clone(y)
 			c := cfg.Clip * total[i]
-			own := 0 // this clock's exceedances inside the window
 			for k, v := range o {
-				if !exc[i][k] {
+				if !(math.Abs(v) > c) {
 					continue
 				}
 				lo, hi := max(0, k-window), min(nInt, k+window+1)
-				own = 0
-				for kk := lo; kk < hi; kk++ {
-					if exc[i][kk] {
-						own++
+				// Peak |y| of every other clock exceeding inside the window.
+				peaks = peaks[:0]
+				for i2, y2 := range ys {
+					if i2 == i || cum[i2][hi] == cum[i2][lo] {
+						continue
 					}
+					pk := 0.0
+					for _, v2 := range y2[lo:hi] {
+						if a := math.Abs(v2); a > pk {
+							pk = a
+						}
+					}
+					peaks = append(peaks, pk)
 				}
-				if cum[hi]-cum[lo]-own >= cfg.Coincidence {
-					continue // coherent across the network: keep
+				if len(peaks) >= cfg.Coincidence {
+					// Coherent across the network: keep, but no larger than
+					// 3× the Coincidence-th largest peak of the others — a
+					// wall gives every clock a similar |y| (K·ΔT/τ0), an
+					// outlier inside a loud sweep does not.
+					slices.Sort(peaks)
+					c = math.Max(c, 3*peaks[len(peaks)-cfg.Coincidence])
 				}
 				o[k] = math.Max(-c, math.Min(c, v))
 			}
