@@ -115,7 +115,7 @@ Example:
 			}
 			n := int(nf)
 			x := m.Phase(sim.SeedStream(*seed, 0, *id, "noise"), n, tau0)
-			_, _, err = atomicfile.Write(*out, func(w io.Writer) error { return writeWideCSV(w, tau0, *id, x) })
+			_, _, err = atomicfile.Write(*out, func(w *bufio.Writer) error { return writeWideCSV(w, tau0, *id, x) })
 			if err != nil {
 				return err
 			}

@@ -196,7 +196,7 @@ Example:
 					return err
 				}
 				format := strings.TrimPrefix(strings.ToLower(filepath.Ext(*plotPath)), ".")
-				if _, _, err := atomicfile.Write(*plotPath, func(w io.Writer) error { return stability.WritePlot(w, p, format) }); err != nil {
+				if _, _, err := atomicfile.Write(*plotPath, func(w *bufio.Writer) error { return stability.WritePlot(w, p, format) }); err != nil {
 					return err
 				}
 				fmt.Fprintf(stderr, "wallcross stability: wrote %s\n", *plotPath)

@@ -14,9 +14,9 @@ import (
 )
 
 // Write writes path through fill and returns the SHA-256 (hex) and size
-// of what was written. On any failure nothing is left behind and an
-// existing file at path is untouched.
-func Write(path string, fill func(w io.Writer) error) (sum string, n int64, err error) {
+// of what was written. The file gets mode 0644. On any failure nothing is
+// left behind and an existing file at path is untouched.
+func Write(path string, fill func(w *bufio.Writer) error) (sum string, n int64, err error) {
 	dir, base := filepath.Split(path)
 	if dir == "" {
 		dir = "."
@@ -47,6 +47,9 @@ func Write(path string, fill func(w io.Writer) error) (sum string, n int64, err 
 	if err = f.Close(); err != nil {
 		return "", 0, fmt.Errorf("could not write %s: %w", path, err)
 	}
+	if err = os.Chmod(tmp, 0o644); err != nil {
+		return "", 0, fmt.Errorf("could not write %s: %w", path, err)
+	}
 	if err = os.Rename(tmp, path); err != nil {
 		return "", 0, fmt.Errorf("could not write %s: %w", path, err)
 	}
@@ -55,7 +58,7 @@ func Write(path string, fill func(w io.Writer) error) (sum string, n int64, err 
 
 // WriteBytes writes data to path atomically.
 func WriteBytes(path string, data []byte) (sum string, err error) {
-	sum, _, err = Write(path, func(w io.Writer) error {
+	sum, _, err = Write(path, func(w *bufio.Writer) error {
 		_, err := w.Write(data)
 		return err
 	})
@@ -64,16 +67,22 @@ func WriteBytes(path string, data []byte) (sum string, err error) {
 
 // SumFile returns the SHA-256 (hex) of the file at path.
 func SumFile(path string) (string, error) {
+	sum, _, err := Sum(path)
+	return sum, err
+}
+
+// Sum returns the SHA-256 (hex) and size of the file at path.
+func Sum(path string) (sum string, n int64, err error) {
 	f, err := os.Open(path)
 	if err != nil {
-		return "", err
+		return "", 0, err
 	}
 	defer f.Close()
 	h := sha256.New()
-	if _, err := io.Copy(h, f); err != nil {
-		return "", err
+	if n, err = io.Copy(h, f); err != nil {
+		return "", 0, err
 	}
-	return hex.EncodeToString(h.Sum(nil)), nil
+	return hex.EncodeToString(h.Sum(nil)), n, nil
 }
 
 type counter struct {

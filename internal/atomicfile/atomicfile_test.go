@@ -1,8 +1,8 @@
 package atomicfile
 
 import (
+	"bufio"
 	"errors"
-	"io"
 	"os"
 	"path/filepath"
 	"testing"
@@ -17,7 +17,7 @@ func TestWriteAtomic(t *testing.T) {
 		t.Fatalf("sum %s, err %v", sum, err)
 	}
 	// A failing fill leaves the old file and no temporary behind.
-	_, _, err = Write(p, func(w io.Writer) error {
+	_, _, err = Write(p, func(w *bufio.Writer) error {
 		w.Write([]byte("partial"))
 		return errors.New("disk on fire")
 	})
@@ -31,6 +31,9 @@ func TestWriteAtomic(t *testing.T) {
 	ents, _ := os.ReadDir(dir)
 	if len(ents) != 1 {
 		t.Errorf("%d entries left in the directory, want 1", len(ents))
+	}
+	if st, err := os.Stat(p); err != nil || st.Mode().Perm() != 0o644 {
+		t.Errorf("mode %v, want 0644 (%v)", st.Mode().Perm(), err)
 	}
 	if s2, _ := SumFile(p); s2 != sum {
 		t.Errorf("SumFile %s != %s", s2, sum)

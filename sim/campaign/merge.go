@@ -1,9 +1,9 @@
 package campaign
 
 import (
+	"bufio"
 	"encoding/json"
 	"fmt"
-	"io"
 	"math"
 	"os"
 	"path/filepath"
@@ -295,7 +295,7 @@ func WriteMerged(dir string, p *Pooled) (*Summary, error) {
 		return nil, err
 	}
 	nInj := len(p.Settings.Cells) * p.Settings.PerCell
-	if _, _, err := atomicfile.Write(filepath.Join(dir, "background.csv"), func(w io.Writer) error {
+	if _, _, err := atomicfile.Write(filepath.Join(dir, "background.csv"), func(w *bufio.Writer) error {
 		fmt.Fprintln(w, "trial,loudest_stat")
 		for _, o := range p.Outcomes[nInj:] {
 			fmt.Fprintf(w, "%d,%s\n", o.ID, ff(o.Loudest))
@@ -304,7 +304,7 @@ func WriteMerged(dir string, p *Pooled) (*Summary, error) {
 	}); err != nil {
 		return nil, fmt.Errorf("campaign: %w", err)
 	}
-	if _, _, err := atomicfile.Write(filepath.Join(dir, "summary.json"), func(w io.Writer) error {
+	if _, _, err := atomicfile.Write(filepath.Join(dir, "summary.json"), func(w *bufio.Writer) error {
 		b, err := json.MarshalIndent(jsonSafe(s), "", "  ")
 		if err != nil {
 			return err

@@ -137,7 +137,7 @@ func RunShard(ctx context.Context, p *Plan, r Runner, s Shard, out string, opt O
 	if m.Trials == nil {
 		m.Trials = []int{}
 	}
-	if _, _, err := atomicfile.Write(filepath.Join(dir, manifestName), func(w io.Writer) error {
+	if _, _, err := atomicfile.Write(filepath.Join(dir, manifestName), func(w *bufio.Writer) error {
 		enc := json.NewEncoder(w)
 		enc.SetIndent("", " ")
 		return enc.Encode(m)
@@ -183,6 +183,9 @@ func appendJournal(ctx context.Context, p *Plan, r Runner, jpath string, opt Opt
 		go func() {
 			defer wg.Done()
 			for k := range jobs {
+				if ctx.Err() != nil {
+					continue // interrupted: leave the rest for the rerun
+				}
 				o, err := r.RunTrial(ctx, p.Trial(k))
 				mu.Lock()
 				if err != nil {
@@ -280,7 +283,7 @@ func firstN(s string, n int) string {
 
 func writeOutcomes(path string, outs []Outcome) (string, error) {
 	sort.Slice(outs, func(i, j int) bool { return outs[i].ID < outs[j].ID })
-	sum, _, err := atomicfile.Write(path, func(w io.Writer) error {
+	sum, _, err := atomicfile.Write(path, func(w *bufio.Writer) error {
 		cw := csv.NewWriter(w)
 		cw.Write(outcomeHeader)
 		for _, o := range outs {

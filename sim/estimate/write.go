@@ -2,15 +2,11 @@ package estimate
 
 import (
 	"bufio"
-	"crypto/sha256"
-	"encoding/hex"
 	"fmt"
-	"hash"
-	"io"
 	"math"
-	"os"
-	"path/filepath"
 	"strconv"
+
+	"wallcross/internal/atomicfile"
 )
 
 // FileSum is the size and SHA-256 checksum of a written file (same fields
@@ -138,47 +134,12 @@ func csvName(s string) error {
 	return nil
 }
 
-type countHash struct {
-	h hash.Hash
-	n int64
-}
-
-func (c *countHash) Write(p []byte) (int, error) {
-	c.n += int64(len(p))
-	return c.h.Write(p)
-}
-
 // writeAtomic writes path through fill via a temporary file in the same
 // directory, renamed onto path only when everything succeeded.
-func writeAtomic(path string, fill func(w *bufio.Writer) error) (sum FileSum, err error) {
-	dir, base := filepath.Split(path)
-	if dir == "" {
-		dir = "."
-	}
-	f, err := os.CreateTemp(dir, "."+base+".tmp*")
+func writeAtomic(path string, fill func(w *bufio.Writer) error) (FileSum, error) {
+	sum, n, err := atomicfile.Write(path, fill)
 	if err != nil {
-		return sum, fmt.Errorf("estimate: could not create %s: %w", path, err)
+		return FileSum{}, fmt.Errorf("estimate: %w", err)
 	}
-	tmp := f.Name()
-	defer func() {
-		if err != nil {
-			f.Close()
-			os.Remove(tmp)
-		}
-	}()
-	ch := &countHash{h: sha256.New()}
-	w := bufio.NewWriterSize(io.MultiWriter(f, ch), 1<<16)
-	if err = fill(w); err != nil {
-		return sum, fmt.Errorf("estimate: could not write %s: %w", path, err)
-	}
-	if err = w.Flush(); err != nil {
-		return sum, fmt.Errorf("estimate: could not write %s: %w", path, err)
-	}
-	if err = f.Close(); err != nil {
-		return sum, fmt.Errorf("estimate: could not write %s: %w", path, err)
-	}
-	if err = os.Rename(tmp, path); err != nil {
-		return sum, fmt.Errorf("estimate: could not write %s: %w", path, err)
-	}
-	return FileSum{Bytes: ch.n, SHA256: hex.EncodeToString(ch.h.Sum(nil))}, nil
+	return FileSum{Bytes: n, SHA256: sum}, nil
 }

@@ -1,6 +1,7 @@
 package overlay
 
 import (
+	"bufio"
 	"encoding/csv"
 	"encoding/json"
 	"fmt"
@@ -80,13 +81,13 @@ func WriteDir(dir string, res *Result, inputs map[string]string, clockName strin
 	base = strings.TrimSuffix(base, ".gz")
 	files := []struct {
 		name string
-		fill func(w io.Writer) error
+		fill func(w *bufio.Writer) error
 	}{
-		{base, func(w io.Writer) error { _, err := w.Write(res.Data); return err }},
-		{"events.csv", func(w io.Writer) error {
+		{base, func(w *bufio.Writer) error { _, err := w.Write(res.Data); return err }},
+		{"events.csv", func(w *bufio.Writer) error {
 			return writeCSV(w, inject.EventColumns(), len(res.Events), func(i int) []string { return res.Events[i].Strings() })
 		}},
-		{"crossings.csv", func(w io.Writer) error {
+		{"crossings.csv", func(w *bufio.Writer) error {
 			return writeCSV(w, inject.CrossingColumns(), len(res.Crossings), func(i int) []string { return res.Crossings[i].Strings() })
 		}},
 	}
@@ -97,7 +98,7 @@ func WriteDir(dir string, res *Result, inputs map[string]string, clockName strin
 		}
 		m.Files[f.name] = sum
 	}
-	_, _, err := atomicfile.Write(filepath.Join(dir, "manifest.json"), func(w io.Writer) error {
+	_, _, err := atomicfile.Write(filepath.Join(dir, "manifest.json"), func(w *bufio.Writer) error {
 		enc := json.NewEncoder(w)
 		enc.SetIndent("", "  ")
 		return enc.Encode(m)
