@@ -96,8 +96,8 @@ func (cfg Config) withDefaults() (Config, error) {
 		c.Speeds = DefaultSpeeds()
 	}
 	for _, v := range c.Speeds {
-		if !(v > 0) || !(v < inject.SpeedOfLight) {
-			return c, fmt.Errorf("search: speed %g m/s must be in (0, c)", v)
+		if !(v >= 1e3) || !(v < inject.SpeedOfLight) {
+			return c, fmt.Errorf("search: speed %g m/s must be in [1 km/s, c)", v)
 		}
 	}
 	if len(c.Thicknesses) == 0 {

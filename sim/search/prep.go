@@ -197,6 +197,7 @@ type series struct {
 	// zm[interval·nd + data clock]: z = C⁻¹·A·y and weight m. Interval
 	// major, so the clocks a sweep touches at one t0 lie close in memory.
 	zm []zm
+	zc [][]zm    // the same, clock major: zc[data clock][interval]
 	nd int       // data clocks
 	zr []float64 // reference: −1ᵀC⁻¹A·y
 }
@@ -416,5 +417,12 @@ func whiten(es [][]float64, sig2 []float64, sr2 float64, a []float64) series {
 		}
 	}
 	out.zr = zrt
+	out.zc = make([][]zm, nd)
+	for i := range out.zc {
+		out.zc[i] = make([]zm, nInt)
+		for k := range nInt {
+			out.zc[i][k] = out.zm[k*nd+i]
+		}
+	}
 	return out
 }

@@ -62,15 +62,20 @@ const blockLen = 32
 
 // worker holds one goroutine's scratch and its running maxima.
 type worker struct {
-	proj    [][]float64 // [scan clock][epoch] n̂·r, m
-	x       []float64   // [scan clock × blockLen] crossing time, intervals since the first epoch
-	ci      []int32     // [scan clock × blockLen] crossing interval
-	ph      []uint8     // [scan clock × blockLen] crossing phase bin
-	g, r    []float64   // per-t0 interval buffers: Σ m·K·g, reference K·g
-	best    []float64   // per t0: largest |ρ|
-	bestID  []int       // per t0: its template id (−1: none)
-	bestNum []float64   // per t0: its numerator
-	bestDen []float64   // per t0: its denominator
+	proj  [][]float64 // [scan clock][epoch] n̂·r, m
+	x     []float64   // [scan clock × blockLen] crossing time, intervals since the first epoch (if keepX)
+	keepX bool        // fill x (tests)
+	ci    []int32     // [scan clock × blockLen] crossing interval
+	ph    []uint8     // [scan clock × blockLen] crossing phase bin
+	g, r  []float64   // per-t0 interval buffers: Σ m·K·g, reference K·g
+	// Per-block results and the thin-wall block buffers.
+	bnum, bden, bq []float64 // [blockLen] numerator, denominator, Σ m·(K·g)²
+	boff           []int     // [blockLen] half − interval of t0
+	bg, br         []float64 // [blockLen × (2·half+1)] G and R per t0
+	best           []float64 // per t0: largest |ρ|
+	bestID         []int     // per t0: its template id (−1: none)
+	bestNum        []float64 // per t0: its numerator
+	bestDen        []float64 // per t0: its denominator
 	// visit, if set, receives every (t0 index, template id, numerator,
 	// denominator) instead of the running maxima (tests).
 	visit func(m, id int, num, den float64)
@@ -84,6 +89,9 @@ func (s *searcher) newWorker() *worker {
 	}
 	b := 2*s.half + 1
 	w.g, w.r = make([]float64, b), make([]float64, b)
+	w.bnum, w.bden, w.bq = make([]float64, blockLen), make([]float64, blockLen), make([]float64, blockLen)
+	w.boff = make([]int, blockLen)
+	w.bg, w.br = make([]float64, blockLen*b), make([]float64, blockLen*b)
 	w.best = make([]float64, s.nT0)
 	w.bestID = make([]int, s.nT0)
 	w.bestNum = make([]float64, s.nT0)
@@ -148,6 +156,7 @@ func (s *searcher) blockCrossings(w *worker, m0, nb int, invV float64) {
 		k0 := max(0, min(int(t0*invStep+0.5), s.nEpoch-1))
 		return crossing(p, k0, t0, invV, invStep, lastX)
 	}
+	keep := w.keepX
 	scale := 0.0
 	if nb > 1 {
 		scale = 2 / float64(nb-1)
@@ -159,14 +168,16 @@ func (s *searcher) blockCrossings(w *worker, m0, nb int, invV float64) {
 		xa, xm, xb := solve(p, ta), solve(p, tm), solve(p, tb)
 		// x(u) = xm + u·c1 + u²·c2 for u = 2·mm/(nb−1) − 1 ∈ [−1, 1].
 		c1, c2 := 0.5*(xb-xa), 0.5*(xa+xb)-xm
-		xs := w.x[c*blockLen : c*blockLen+nb]
+		xs := w.x[c*blockLen : c*blockLen+nb] // kept for tests only (w.keepX)
 		for mm := range ci {
 			u := float64(mm)*scale - 1
 			x := xm + u*(c1+u*c2)
 			if nb == 1 {
 				x = xa
 			}
-			xs[mm] = x
+			if keep {
+				xs[mm] = x
+			}
 			fi := floorInt(x)
 			ci[mm] = int32(fi)
 			if s.phased {
@@ -176,14 +187,13 @@ func (s *searcher) blockCrossings(w *worker, m0, nb int, invV float64) {
 	}
 }
 
-// floorInt returns ⌊x⌋ for |x| < 2³¹.
-func floorInt(x float64) int {
-	i := int(x)
-	if float64(i) > x {
-		i--
-	}
-	return i
-}
+// floorBias makes floorInt one truncating conversion: x + floorBias > 0
+// for every crossing of a valid network (|lag| ≤ R/v < 1e6 s), and its
+// resolution, 2⁻²² intervals (7 µs at 30 s), is far below the solver's.
+const floorBias = 1 << 30
+
+// floorInt returns ⌊x⌋ for −2³⁰ < x < 2³⁰ (to 2⁻²²).
+func floorInt(x float64) int { return int(x+floorBias) - floorBias }
 
 // t0 returns the geocentre time of grid point m, s since the first epoch.
 func (s *searcher) t0(m int) float64 { return float64(s.m0+m) * s.dt0 }
@@ -210,18 +220,26 @@ func (s *searcher) scanDirection(w *worker, d int) {
 			// reach: |lag| ≤ R/v, plus the kernel extent.
 			reach := int(math.Ceil(s.radius*invV*invStep)) + 2
 			s.blockCrossings(w, m0, nb, invV)
-			for mm := range nb {
-				m := m0 + mm
-				base := floorInt(s.t0(m) * invStep)
-				for th := range s.cfg.Thicknesses {
-					kt := &s.kern[vi][th]
-					// Buffer entries this template can touch.
-					blo := max(0, s.half-reach+kt.lo)
-					bhi := min(2*s.half, s.half+reach+kt.lo+kt.n)
-					for cl := range s.cfg.Couplings {
-						num, qtot := s.accumulate(w, &s.prep.data, kt, cl, mm, base)
-						den := s.denominator(w, base, blo, bhi, qtot)
-						id := s.templateID(d, vi, th, cl)
+			for th := range s.cfg.Thicknesses {
+				kt := &s.kern[vi][th]
+				// Buffer entries this template can touch.
+				blo := max(0, s.half-reach+kt.lo)
+				bhi := min(2*s.half, s.half+reach+kt.lo+kt.n)
+				for cl := range s.cfg.Couplings {
+					id := s.templateID(d, vi, th, cl)
+					if kt.n == 1 && kt.lo == 0 {
+						s.thinBlock(w, &s.prep.data, cl, m0, nb, blo, bhi)
+					} else {
+						for mm := range nb {
+							base := floorInt(s.t0(m0+mm) * invStep)
+							num, qtot := s.accumulate(w, &s.prep.data, kt, cl, mm, base)
+							w.bnum[mm] = num
+							w.bden[mm] = s.denominator(w, base, blo, bhi, qtot)
+						}
+					}
+					for mm := range nb {
+						m := m0 + mm
+						num, den := w.bnum[mm], w.bden[mm]
 						if w.visit != nil {
 							w.visit(m, id, num, den)
 							continue
@@ -238,6 +256,78 @@ func (s *searcher) scanDirection(w *worker, d int) {
 				}
 			}
 		}
+	}
+}
+
+// thinBlock evaluates the thin-wall template of coupling cl at the nb grid
+// points of the block from m0 (crossings in the worker's table), leaving
+// numerators and denominators in w.bnum, w.bden. The loop runs clock by
+// clock over the block, so each clock's data are read in order and the
+// block's t0 accumulate independently (no loop-carried dependency).
+func (s *searcher) thinBlock(w *worker, ser *series, cl, m0, nb, blo, bhi int) {
+	nInt := s.nInt
+	invStep := 1 / s.step
+	B := 2*s.half + 1
+	kg := s.kg[cl]
+	num, qt, off := w.bnum[:nb], w.bq[:nb], w.boff[:nb]
+	G, R := w.bg[:nb*B], w.br[:nb*B]
+	for mm := range nb {
+		num[mm], qt[mm] = 0, 0
+		off[mm] = s.half - floorInt(s.t0(m0+mm)*invStep)
+	}
+	for c, zc := range ser.zc {
+		K := kg[c]
+		if K == 0 {
+			continue
+		}
+		ci := w.ci[c*blockLen : c*blockLen+nb]
+		for mm, i32 := range ci {
+			i := int(i32)
+			if uint(i) >= uint(nInt) {
+				continue
+			}
+			x := zc[i]
+			num[mm] += K * x.z
+			mk := x.m * K
+			qt[mm] += mk * K
+			if b := i + off[mm]; mk != 0 && uint(b) < uint(B) {
+				G[mm*B+b] += mk
+			}
+		}
+	}
+	if s.hasRef {
+		c := s.nData
+		if K := kg[c]; K != 0 {
+			ci := w.ci[c*blockLen : c*blockLen+nb]
+			for mm, i32 := range ci {
+				i := int(i32)
+				if b := i + off[mm]; uint(i) < uint(nInt) && uint(b) < uint(B) {
+					num[mm] += K * ser.zr[i]
+					R[mm*B+b] += K
+				}
+			}
+		}
+	}
+	pr := s.prep
+	for mm := range nb {
+		base := s.half - off[mm]
+		g, r := G[mm*B:(mm+1)*B], R[mm*B:(mm+1)*B]
+		den := qt[mm]
+		for b := blo; b <= bhi; b++ {
+			gb, rb := g[b], r[b]
+			if gb == 0 && rb == 0 {
+				continue
+			}
+			g[b], r[b] = 0, 0
+			e := base - s.half + b
+			if e < 0 || e >= nInt {
+				continue
+			}
+			W := pr.w[e]
+			u := gb - rb*W
+			den += rb*rb*W - 2*rb*gb - pr.gamma[e]*u*u
+		}
+		w.bden[mm] = den
 	}
 }
 

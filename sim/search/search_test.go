@@ -65,6 +65,7 @@ func TestBlockCrossingsAgainstInject(t *testing.T) {
 		t.Fatal(err)
 	}
 	w := s.newWorker()
+	w.keepX = true
 	scan := append(slices.Clone(s.prep.noise.Data), sn.ref)
 	worst := 0.0
 	for d := range s.dirs {
