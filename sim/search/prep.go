@@ -313,7 +313,9 @@ func prepare(net *Network, cfg *Config, window int) (*prepared, error) {
 					// wall gives every clock a similar |y| (K·ΔT/τ0), an
 					// outlier inside a loud sweep does not.
 					slices.Sort(peaks)
-					c = math.Max(c, 3*peaks[len(peaks)-cfg.Coincidence])
+					cap := math.Max(c, 3*peaks[len(peaks)-cfg.Coincidence])
+					o[k] = math.Max(-cap, math.Min(cap, v))
+					continue
 				}
 				o[k] = math.Max(-c, math.Min(c, v))
 			}

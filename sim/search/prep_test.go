@@ -175,6 +175,10 @@ func TestCoherentClipping(t *testing.T) {
 			phase[j][k] += 30 * o.sigmaSat * o.step
 		}
 	}
+	// A later isolated outlier in clock 1, which took part in the sweep.
+	for k := 351; k < o.epochs; k++ {
+		phase[1][k] += 30 * o.sigmaSat * o.step
+	}
 	// An outlier 100× larger in clock 6 inside that sweep.
 	for k := 254; k < o.epochs; k++ {
 		phase[6][k] += 3000 * o.sigmaSat * o.step
@@ -196,6 +200,9 @@ func TestCoherentClipping(t *testing.T) {
 		if a := math.Abs(z(p.data, j, k)); a < 25 {
 			t.Errorf("coherent spike in clock %d at %d: %.1f σ after clipping, want ≈ 30", j, k, a)
 		}
+	}
+	if a := math.Abs(z(p.data, 1, 350)); a > 10 {
+		t.Errorf("isolated spike after a coherent one in the same clock: %.1f σ after clipping, want ≤ 10", a)
 	}
 	// Clipped at 3× the others' 4th-largest peak (≈ 30σ): ≤ ≈ 100σ, not 3000σ.
 	if a := math.Abs(z(p.data, 6, 253)); a > 120 || a < 60 {
