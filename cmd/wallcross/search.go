@@ -40,8 +40,8 @@ thickness classes, coupling classes — is built from the real geometry
 clock's own crossing, which appears with opposite sign in every series.
 The statistic at each t0 (two per sample interval) is the largest
 matched-filter |SNR| over the bank; grid points above the threshold are
-clustered in time (gaps up to the longest sweep 2R/v_min) and the loudest
-of each cluster is written.
+clustered in time (each loudest point absorbs the points within the
+longest sweep 2R/v_min of it) and the loudest of each cluster is written.
 
 The candidate file has the columns
   t0_s,stat,nx,ny,nz,speed_m_s,thickness_m,amplitude,coupling
@@ -52,8 +52,10 @@ signed. The file is written to a temporary name and renamed.
 
 Cost: about directions × speeds × t0 points × clocks × (1 + thickness
 and coupling classes × kernel length) operations; a day of 30-s data
-with 70 clocks and the default bank takes tens of seconds on 2 cores.
-Progress goes to stderr.`,
+with 60 clocks and the default bank (2,000 directions x 8 speeds, thin
+walls, 5.5e9 template·clock·t0 evaluations) took 74 s of CPU on this
+project's 2-core machine. A thick class (--thickness 0,1e4) costs about
+4·d/(v·τ0) + 3 thin classes. Progress goes to stderr.`,
 		Flags: fs,
 		Run: func(args []string, stdout, stderr io.Writer) error {
 			if len(args) != 1 {

@@ -39,7 +39,8 @@ type Config struct {
 	T0Window [2]float64
 	// Threshold is the smallest statistic reported as a candidate (default 5).
 	Threshold float64
-	// ClusterWindow joins above-threshold grid points closer than this, s
+	// ClusterWindow is the half width, s, of the time window around each
+	// kept candidate within which other grid points are absorbed
 	// (default 2R/v_min, the longest sweep of the bank).
 	ClusterWindow float64
 	// Whiten is the order p of the shared AR whitening filter; 0 (default)

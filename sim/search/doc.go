@@ -53,8 +53,9 @@
 //     class (the set of K_j used: "eff" = 1 for every clock, or a key of the
 //     clocks' sensitivity coefficients in the manifest).
 //  5. Candidates. Grid points with stat ≥ Config.Threshold are clustered in
-//     time (points closer than Config.ClusterWindow join) and the loudest of
-//     each cluster is reported with its template parameters.
+//     time by non-maximum suppression (the loudest point absorbs every point
+//     within ±Config.ClusterWindow, repeatedly) and each kept point is
+//     reported with its template parameters.
 //
 // # Bank
 //

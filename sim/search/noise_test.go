@@ -198,3 +198,29 @@ func TestARWhitening(t *testing.T) {
 		t.Fatalf("variance %.2f (no whitening, want > 1.8), %.2f (AR(1), want ≈ 1), filter %v (want [1 −0.5])", v0, v1, a)
 	}
 }
+
+// TestClusterSuppression: two loud peaks whose above-threshold stretches
+// touch stay two candidates; points around a peak are absorbed.
+func TestClusterSuppression(t *testing.T) {
+	stat := make([]float64, 200)
+	for m := range stat {
+		stat[m] = 6 // above the threshold everywhere: a chaining rule would give one cluster
+	}
+	stat[50], stat[51], stat[150] = 40, 39, 30
+	best := make([]Template, len(stat))
+	c := Cluster(stat, best, 100, 15, 5, 300) // window 300 s = 20 points
+	var t0s []float64
+	for _, x := range c {
+		t0s = append(t0s, x.T0)
+	}
+	// Peaks at m = 50 (t0 850 s) and 150 (2350 s) absorb m 30–70 and
+	// 130–170; the flat plateau is then covered greedily from its earliest
+	// free point in steps of 21 points: m = 0, 21, 71, 92, 113, 171, 192.
+	want := []float64{100, 415, 850, 1165, 1480, 1795, 2350, 2665, 2980}
+	if !reflect.DeepEqual(t0s, want) {
+		t.Fatalf("candidate t0 %v, want %v", t0s, want)
+	}
+	if c[2].Stat != 40 || c[6].Stat != 30 {
+		t.Fatalf("candidate stats %v", c)
+	}
+}

@@ -1,8 +1,11 @@
 package search
 
 import (
+	"cmp"
 	"fmt"
 	"math"
+	"slices"
+	"sort"
 )
 
 // Template is one point of the bank with its fitted amplitude.
@@ -184,25 +187,42 @@ func (s *searcher) template(id int, num, den float64) Template {
 		Coupling: s.cfg.Couplings[cl], Amplitude: num / den, SNR: num / math.Sqrt(den)}
 }
 
-// Cluster groups the grid points m (t0 = first + m·step) with stat[m] ≥ threshold
-// into clusters, a new cluster starting when the gap to the previous
-// above-threshold point exceeds window (s), and returns each cluster's
-// loudest point (the earliest on ties), in time order.
+// Cluster reduces the grid points m (t0 = first + m·step) with
+// stat[m] ≥ threshold to one candidate per cluster by non-maximum
+// suppression: the loudest remaining point is kept and every point within
+// ±window (s) of it is absorbed, until none remain (ties: the earlier point
+// first). Unlike chaining neighbours, this does not merge two loud walls
+// whose above-threshold stretches touch. Candidates are returned in time
+// order.
 func Cluster(stat []float64, best []Template, first, step, threshold, window float64) []Candidate {
-	var out []Candidate
-	last := math.Inf(-1)
+	var idx []int
 	for m, x := range stat {
-		if !(x >= threshold) {
+		if x >= threshold {
+			idx = append(idx, m)
+		}
+	}
+	order := slices.Clone(idx)
+	slices.SortStableFunc(order, func(a, b int) int { return cmp.Compare(stat[b], stat[a]) })
+	taken := make(map[int]bool, len(idx))
+	var keep []int
+	for _, m := range order {
+		if taken[m] {
 			continue
 		}
-		t := first + float64(m)*step
-		c := Candidate{T0: t, Stat: x, Template: best[m]}
-		if len(out) == 0 || t-last > window {
-			out = append(out, c)
-		} else if x > out[len(out)-1].Stat {
-			out[len(out)-1] = c
+		keep = append(keep, m)
+		// Absorb the neighbours within ±window (idx is sorted by m).
+		lo := sort.SearchInts(idx, m-int(math.Floor(window/step)))
+		for _, m2 := range idx[lo:] {
+			if float64(m2-m)*step > window {
+				break
+			}
+			taken[m2] = true
 		}
-		last = t
+	}
+	slices.Sort(keep)
+	out := make([]Candidate, len(keep))
+	for i, m := range keep {
+		out[i] = Candidate{T0: first + float64(m)*step, Stat: stat[m], Template: best[m]}
 	}
 	return out
 }
