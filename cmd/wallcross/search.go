@@ -14,7 +14,7 @@ import (
 func newSearchCmd() *command {
 	fs := newFlagSet("search")
 	out := fs.String("out", "", "candidate file `FILE.csv` to write (required)")
-	threshold := fs.Float64("threshold", 5, "report clusters with stat ≥ `X` (|SNR|)")
+	threshold := fs.Float64("threshold", 6, "report clusters with stat ≥ `X` (|SNR|)")
 	directions := fs.Int("directions", 0, "number of wall directions `N` (default: from the timing resolution, at most 2000)")
 	speeds := fs.String("speeds", "", "speed classes `LIST` in km/s, e.g. 200,300,450 (default 150,187,233,290,361,450,561,700)")
 	thickness := fs.String("thickness", "", "thickness classes `LIST` in km, 0 = thin wall, e.g. 0,2e4 (default 0)")
