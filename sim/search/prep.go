@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"sort"
 )
 
 // madScale is 1/Φ⁻¹(3/4), the factor that turns the median absolute
@@ -111,35 +112,71 @@ func estimateCommon(series [][]float64, total []float64) float64 {
 	if n < 2 {
 		return 0
 	}
-	npairs := n * (n - 1) / 2
-	stride := 1
-	if npairs > maxPairs {
-		stride = (npairs + maxPairs - 1) / maxPairs
+	// Each pair's estimate ½(total_i² + total_j² − Var(y_i − y_j)) has a
+	// standard error of order total_i² + total_j² (times the relative
+	// error of the robust scales, ~10 % for a few hundred samples), so
+	// pairs of noisy clocks would swamp a common term near the quietest
+	// clocks' level (a maser reference among maser stations under
+	// Rb-clock satellites). The estimate is the precision-weighted median
+	// over the pairs of the quietest clocks (all of them when they make at
+	// most maxPairs pairs), weight 1/(total_i² + total_j²)².
+	order := make([]int, n)
+	for i := range order {
+		order[i] = i
 	}
-	var est []float64
+	sort.SliceStable(order, func(a, b int) bool { return total[order[a]] < total[order[b]] })
+	k := n
+	for k > 2 && k*(k-1)/2 > maxPairs {
+		k--
+	}
+	type est struct{ v, w float64 }
+	var ests []est
 	diff := make([]float64, len(series[0]))
 	scratch := make([]float64, 0, len(diff))
-	p := 0
-	for i := 0; i < n; i++ {
-		for j := i + 1; j < n; j++ {
-			p++
-			if (p-1)%stride != 0 {
-				continue
-			}
-			for k := range diff {
-				diff[k] = series[i][k] - series[j][k] // NaN if either missing
+	for a := 0; a < k; a++ {
+		for b := a + 1; b < k; b++ {
+			i, j := order[a], order[b]
+			for t := range diff {
+				diff[t] = series[i][t] - series[j][t] // NaN if either missing
 			}
 			sd, _ := RobustScale(diff, scratch)
-			if math.IsNaN(sd) {
+			s2 := total[i]*total[i] + total[j]*total[j]
+			if math.IsNaN(sd) || !(s2 > 0) {
 				continue
 			}
-			est = append(est, 0.5*(total[i]*total[i]+total[j]*total[j]-sd*sd))
+			ests = append(ests, est{0.5 * (s2 - sd*sd), 1 / (s2 * s2)})
 		}
 	}
-	if len(est) == 0 {
+	if len(ests) == 0 {
 		return 0
 	}
-	return math.Max(0, medianInPlace(est))
+	sort.Slice(ests, func(a, b int) bool { return ests[a].v < ests[b].v })
+	var wsum float64
+	for _, e := range ests {
+		wsum += e.w
+	}
+	sr2, acc := ests[len(ests)-1].v, 0.0
+	for _, e := range ests {
+		if acc += e.w; acc >= 0.5*wsum {
+			sr2 = e.v
+			break
+		}
+	}
+	// The model has total_i² = own_i² + σ_r² ≥ σ_r² for every clock: an
+	// estimate near or above the quietest clock's total is estimation
+	// noise, and taken at face value it would leave that clock almost no
+	// own noise (an inflated weight). Cap it at 3/4 of the smallest total
+	// variance, so no clock's own σ falls below half its total.
+	m := math.Inf(1)
+	for _, t := range total {
+		if t > 0 {
+			m = math.Min(m, t*t)
+		}
+	}
+	if !math.IsInf(m, 1) {
+		sr2 = math.Min(sr2, 0.75*m)
+	}
+	return math.Max(0, sr2)
 }
 
 // levinson solves the Yule–Walker equations for autocovariance r[0..p] by
