@@ -237,7 +237,7 @@ func (c *Campaign) validate(v *validator) {
 		}
 	}
 	switch {
-	case len(g.Step) == 0 && len(g.LambdaEff) == 0:
+	case len(g.Step) == 0 && len(g.LambdaEff) == 0 && !v.given("grid.step") && !v.given("grid.lambda_eff"):
 		v.add("grid", "missing: grid.step or grid.lambda_eff (the amplitude axis)")
 	case len(g.Step) > 0 && len(g.LambdaEff) > 0:
 		v.add("grid", "give grid.step or grid.lambda_eff, not both")

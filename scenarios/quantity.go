@@ -35,7 +35,7 @@ const (
 // factor to SI.
 var unitTable = map[Dimension]map[string]float64{
 	DimTime: {
-		"ns": 1e-9, "us": 1e-6, "µs": 1e-6, "ms": 1e-3, "s": 1,
+		"fs": 1e-15, "ps": 1e-12, "ns": 1e-9, "us": 1e-6, "µs": 1e-6, "ms": 1e-3, "s": 1,
 		"min": 60, "h": 3600, "d": 86400, "day": 86400, "days": 86400,
 		"wk": 7 * 86400, "yr": JulianYear, "y": JulianYear,
 	},
