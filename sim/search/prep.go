@@ -299,7 +299,8 @@ func prepare(net *Network, cfg *Config, window int) (*prepared, error) {
 	// clocks also exceed Clip σ within ±window intervals (a sweep); those
 	// are clipped only at 3× the others' Coincidence-th largest peak. A
 	// wall's spikes (and the reference's own crossing, common to every
-	// series) survive; single-clock outliers and phase jumps are clipped.
+	// series) survive; single-clock phase jumps are clipped and isolated
+	// outliers (a ± doublet) dropped.
 	clipped := func(ys [][]float64, total []float64) [][]float64 {
 		out := make([][]float64, len(ys))
 		if !(cfg.Clip > 0) {
@@ -353,6 +354,17 @@ func prepare(net *Network, cfg *Config, window int) (*prepared, error) {
 					cap := math.Max(c, 3*peaks[len(peaks)-cfg.Coincidence])
 					o[k] = math.Max(-cap, math.Min(cap, v))
 					continue
+				}
+				// An isolated outlier in the bias gives a doublet in the
+				// pseudo-frequency: +Δ/τ0 then −Δ/τ0. Both intervals are
+				// dropped (a gap) rather than clipped: two clipped spikes of
+				// opposite sign would still fit a crossing of this clock
+				// next to the reference's.
+				if k+1 < len(y) {
+					if w := y[k+1]; math.Abs(w) > c && (v > 0) != (w > 0) && math.Abs(v+w) < 0.25*math.Max(math.Abs(v), math.Abs(w)) {
+						o[k], o[k+1] = math.NaN(), math.NaN()
+						continue
+					}
 				}
 				o[k] = math.Max(-c, math.Min(c, v))
 			}
