@@ -326,6 +326,16 @@ func jsonSafe(s *Summary) any { return sanitize(reflect.ValueOf(*s)) }
 // sanitize returns v as plain maps, slices and values, with non-finite
 // floats as nil.
 func sanitize(v reflect.Value) any {
+	if m, ok := v.Interface().(json.Marshaler); ok {
+		// A type with its own JSON form (score.Interval: {low, high},
+		// null for infinite ends) keeps it.
+		if b, err := m.MarshalJSON(); err == nil {
+			var out any
+			if json.Unmarshal(b, &out) == nil {
+				return out
+			}
+		}
+	}
 	switch v.Kind() {
 	case reflect.Float64, reflect.Float32:
 		f := v.Float()
