@@ -269,3 +269,53 @@ func (c *Campaign) validate(v *validator) {
 		v.add("trials", "%d cells × %d trials is more than 1e8 trials", n, c.Trials)
 	}
 }
+
+// WallsFile is a file that holds only a walls section (and optionally a
+// name, description and seed): what "wallcross overlay --scenario" needs
+// to inject walls into real products. A full scenario file is accepted
+// too; its other sections are ignored.
+type WallsFile struct {
+	Name        string `yaml:"name,omitempty"`
+	Description string `yaml:"description,omitempty"`
+	Seed        uint64 `yaml:"seed,omitempty"`
+	Walls       Walls  `yaml:"walls"`
+	// The other sections of a full scenario, accepted and not used.
+	Time           yaml.Node `yaml:"time,omitempty"`
+	Constellations yaml.Node `yaml:"constellations,omitempty"`
+	Navigation     yaml.Node `yaml:"navigation,omitempty"`
+	Stations       yaml.Node `yaml:"stations,omitempty"`
+	Reference      yaml.Node `yaml:"reference,omitempty"`
+	Noise          yaml.Node `yaml:"noise,omitempty"`
+	Nuisances      yaml.Node `yaml:"nuisances,omitempty"`
+	Links          yaml.Node `yaml:"links,omitempty"`
+}
+
+// LoadWalls reads and validates the walls section of a file (defaults
+// filled in as for a scenario; seed default 1).
+func LoadWalls(path string) (*WallsFile, error) {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return nil, fmt.Errorf("scenarios: %w", err)
+	}
+	var f WallsFile
+	ps, lines := decodeStrict(path, data, &f)
+	if lines == nil {
+		return nil, ps
+	}
+	s := Scenario{Seed: f.Seed, Walls: f.Walls}
+	s.applyDefaults()
+	f.Seed, f.Walls = s.Seed, s.Walls
+	v := validator{file: path, lines: *lines}
+	if _, given := lines.byPath["walls"]; !given {
+		v.add("walls", "missing: the walls to inject (events and/or population)")
+	} else if f.Walls.Population == nil && len(f.Walls.Events) == 0 {
+		v.add("walls", "no events and no population: nothing to inject")
+	}
+	f.Walls.validate(&v, 0)
+	ps = append(ps, v.ps...)
+	if len(ps) > 0 {
+		sortProblems(ps)
+		return &f, ps
+	}
+	return &f, nil
+}

@@ -827,3 +827,11 @@ func sampleSP3(geo *orbits.Geometry, sats []clockPlan, start orbits.Time, span, 
 	}
 	return sp, nil
 }
+
+// Walls returns the walls a scenario's walls section describes — its
+// explicit events and a population drawn over [0, span) s after start
+// from the run seed — exactly as Run injects them. overlay uses it to put
+// a scenario's walls into real clock products.
+func Walls(w scenarios.Walls, seed uint64, trial int, start orbits.Time, span float64) ([]inject.Wall, error) {
+	return buildWalls(&scenarios.Scenario{Walls: w}, seed, trial, start, span)
+}

@@ -12,6 +12,7 @@ import (
 	"wallcross/inject"
 	"wallcross/orbits"
 	"wallcross/scenarios"
+	"wallcross/sim"
 	"wallcross/sim/overlay"
 )
 
@@ -21,12 +22,13 @@ func newOverlayCmd() *command {
 	stationsPath := fs.String("stations", "", "station positions `FILE` (CSV with id,x_m,y_m,z_m), overriding the clock header")
 	familiesPath := fs.String("families", "", "clock families `FILE` (CSV with clock,family); defaults per system otherwise")
 	events := fs.StringArray("event", nil, "a wall `SPEC` (repeatable), e.g. t0=30min,n=0:0:1,speed=300km/s,thickness=1e4km,step=1ns")
+	scenarioPath := fs.String("scenario", "", "take the walls from the walls section of `FILE` (explicit events after the first clock epoch and/or a halo-model population over the file's span)")
 	out := fs.String("out", "", "output `DIR`")
 	seed := fs.Uint64("seed", 1, "run seed, recorded in the manifest")
 	skip := fs.Bool("skip-unknown", false, "leave clocks without a position unchanged (with a warning) instead of failing")
 	return &command{
 		Name:  "overlay",
-		Usage: "overlay CLOCKFILE --sp3 ORBITS.sp3 --event SPEC... --out DIR [flags]",
+		Usage: "overlay CLOCKFILE --sp3 ORBITS.sp3 (--scenario FILE | --event SPEC...) --out DIR [flags]",
 		Short: "inject walls into a real RINEX clock file",
 		Long: `Overlay injects domain-wall crossings into a real clock product: a RINEX clock
 file (3.04 or 2.00; AS and AR records) and the SP3 precise orbits of its
@@ -41,6 +43,11 @@ it is the input, byte for byte. Next to it go events.csv, crossings.csv
 (times in seconds after the clock file's first epoch) and manifest.json
 naming the inputs with their SHA-256.
 
+The walls come from --scenario FILE, a YAML file with a walls section as
+in a scenario (profile, thickness, amplitude and coupling, explicit events
+with t0 after the clock file's first epoch, and/or a population drawn
+from the halo model over the file's span with --seed or the file's seed;
+other sections of a full scenario are ignored), and/or from --event.
 A wall SPEC is a comma-separated list of key=value:
   t0=VALUE         when the centre plane passes the geocentre: a GPS-time
                    epoch (2021-04-28T20:00:00) or a duration after the first
@@ -112,9 +119,29 @@ E galileo-phm, R glonass-cs, C beidou3-rb, J rb, stations hmaser.`,
 					origin = r.Epoch
 				}
 			}
+			last := origin
+			for _, r := range cf.Records {
+				if r.Epoch > last {
+					last = r.Epoch
+				}
+			}
 			var walls []inject.Wall
+			runSeed := *seed
+			if *scenarioPath != "" {
+				wf, err := scenarios.LoadWalls(*scenarioPath)
+				if err != nil {
+					return err
+				}
+				if !fs.Changed("seed") {
+					runSeed = wf.Seed
+				}
+				if walls, err = sim.Walls(wf.Walls, runSeed, 0, origin, last.Sub(origin)+1); err != nil {
+					return err
+				}
+				inputs["scenario"] = *scenarioPath
+			}
 			for i, spec := range *events {
-				w, err := parseWallSpec(spec, i+1, origin)
+				w, err := parseWallSpec(spec, len(walls)+i, origin)
 				if err != nil {
 					return usageErrorf("--event %q: %v", spec, err)
 				}
@@ -128,7 +155,7 @@ E galileo-phm, R glonass-cs, C beidou3-rb, J rb, stations hmaser.`,
 			for _, w := range res.Warnings {
 				fmt.Fprintln(stderr, "warning:", w)
 			}
-			m, err := overlay.WriteDir(*out, res, inputs, clkPath, *seed)
+			m, err := overlay.WriteDir(*out, res, inputs, clkPath, runSeed)
 			if err != nil {
 				return err
 			}

@@ -43,8 +43,30 @@ func TestOverlayCommand(t *testing.T) {
 		}
 	}
 	ev, _ := os.ReadFile(filepath.Join(dir2, "events.csv"))
-	if !strings.HasPrefix(string(ev), "event,t0_s,nx,ny,nz,speed_m_s,thickness_m,profile,lambda_eff_gev,peak_dnu\n1,1800,") {
+	if !strings.HasPrefix(string(ev), "event,t0_s,nx,ny,nz,speed_m_s,thickness_m,profile,lambda_eff_gev,peak_dnu\n0,1800,") {
 		t.Errorf("events.csv:\n%s", ev)
+	}
+	// Walls from a walls file: an explicit event and a seeded population
+	// over the file's span; the same seed gives the same walls.
+	wf := filepath.Join(t.TempDir(), "walls.yaml")
+	os.WriteFile(wf, []byte("name: w\nseed: 5\nwalls:\n  step: 1 ns\n  population: {arrival_interval: 5 min}\n  events:\n    - {t0: 30 min, direction: [0.3, -0.4, 0.866]}\n"), 0o644)
+	var evs [2]string
+	for i := range evs {
+		d := t.TempDir()
+		if code, _, errOut := runCLI(t, "overlay", clk, "--sp3", sp3, "--out", d, "--scenario", wf); code != exitOK {
+			t.Fatalf("--scenario: exit %d: %s", code, errOut)
+		}
+		b, _ := os.ReadFile(filepath.Join(d, "events.csv"))
+		evs[i] = string(b)
+	}
+	if evs[0] != evs[1] || !strings.Contains(evs[0], "\n0,1800,") || strings.Count(evs[0], "\n") < 3 {
+		t.Errorf("events from the walls file:\n%s\n%s", evs[0], evs[1])
+	}
+	bad := filepath.Join(t.TempDir(), "bad.yaml")
+	os.WriteFile(bad, []byte("name: w\nwalls:\n  thickness: 1e4\n  events:\n    - {t0: 30 min, direction: [0, 0]}\n"), 0o644)
+	if code, _, errOut := runCLI(t, "overlay", clk, "--sp3", sp3, "--out", t.TempDir(), "--scenario", bad); code != exitFailure ||
+		!strings.Contains(errOut, "bad.yaml:3: walls.thickness: missing unit") || !strings.Contains(errOut, "bad.yaml:5: walls.events[0].direction: want three components") {
+		t.Errorf("bad walls file: exit %d, %s", code, errOut)
 	}
 	// Bad inputs.
 	for _, tc := range []struct {
