@@ -57,7 +57,15 @@ Campaign file (YAML, quantities with units):
   grid:
     thickness: [1e3 km, 1e4 km]
     speed: [300 km/s]
-    step: [0.1 ns, 0.3 ns, 1 ns]   # or lambda_eff: [1e10 GeV, ...]`,
+    step: [3 ps, 10 ps, 30 ps]     # or lambda_eff: [1e10 GeV, ...]
+  search:                     # bank of the in-process reference search
+    directions: 300           # (default: from the timing resolution, ≤ 2000)
+    speeds: [200 km/s, 300 km/s, 420 km/s]
+  match:
+    direction_tol: 30 deg     # also require the direction (default: time only)
+
+Examples: testdata/campaign/ci-campaign.yaml (what CI runs on Slurm) and
+testdata/campaign/demo-campaign.yaml (the demo network).`,
 		Flags: fs,
 		Run: func(args []string, stdout, stderr io.Writer) error {
 			if len(args) != 1 {
