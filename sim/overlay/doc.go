@@ -7,7 +7,8 @@
 // other byte, the header, the order and the number formats are kept.
 //
 // Satellite positions between SP3 epochs come from Lagrange interpolation
-// over 10 epochs (a window kept inside the file near its ends); station
+// over 10 epochs (orbits.Track; a window kept inside the file near its
+// ends); station
 // positions from the clock header's SOLN STA NAME / NUM records or a
 // station file. Earth-fixed positions are rotated to the celestial frame
 // with package orbits.

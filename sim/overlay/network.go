@@ -38,7 +38,7 @@ func Network(cf *ClockFile, sp3 *orbits.SP3, stations map[string][3]float64) (*s
 	}
 	origin := ts[0]
 	n := int((int64(ts[len(ts)-1]-origin))/step) + 1
-	orbs := OrbitsFromSP3(sp3, origin)
+	orbs := sp3.Tracks(origin, true)
 	type col struct {
 		id  string
 		sta bool

@@ -136,33 +136,6 @@ func TestWallChangesOnlyBiases(t *testing.T) {
 	}
 }
 
-// TestLagrangeLeaveOneOut: interpolating each interior SP3 epoch from the
-// others (the point left out) reproduces it to ≤ 5 mm RMS.
-func TestLagrangeLeaveOneOut(t *testing.T) {
-	_, sp3 := loadSetA(t)
-	orbs := OrbitsFromSP3(sp3, sp3.Epochs[0])
-	var sum float64
-	var n int
-	for _, o := range orbs {
-		for k := LagrangePoints / 2; k < len(o.T)-LagrangePoints/2; k++ {
-			loo := &Orbit{Sat: o.Sat, Origin: o.Origin}
-			loo.T = append(append([]float64{}, o.T[:k]...), o.T[k+1:]...)
-			loo.Pos = append(append([][3]float64{}, o.Pos[:k]...), o.Pos[k+1:]...)
-			p := loo.At(o.T[k])
-			d := math.Sqrt(sq(p[0]-o.Pos[k][0]) + sq(p[1]-o.Pos[k][1]) + sq(p[2]-o.Pos[k][2]))
-			sum += d * d
-			n++
-		}
-	}
-	rms := math.Sqrt(sum / float64(n))
-	t.Logf("leave-one-out RMS over %d interior satellite-epochs: %.2f mm", n, rms*1e3)
-	if n < 1000 || rms > 5e-3 {
-		t.Errorf("leave-one-out RMS %.2f mm over %d points, want ≤ 5 mm", rms*1e3, n)
-	}
-}
-
-func sq(x float64) float64 { return x * x }
-
 func TestInconsistentInputs(t *testing.T) {
 	cf, _ := loadSetA(t)
 	// Set B's SP3 is 2023-03-14: a different day.
@@ -298,4 +271,25 @@ func loudest(t *testing.T, cf *ClockFile, sp3 *orbits.SP3, cfg search.Config) fl
 		m = math.Max(m, s)
 	}
 	return m
+}
+
+// printedStep returns half a unit of the last printed digit of a value
+// printed like s (the rounding bound of that format).
+func printedStep(s string) float64 {
+	t := strings.TrimSpace(s)
+	ei := strings.IndexAny(t, "EeDd")
+	dot := strings.IndexByte(t, '.')
+	if ei < 0 || dot < 0 {
+		return math.NaN()
+	}
+	digits := ei - dot - 1
+	v, err := parseFortranFloat(t)
+	if err != nil || v == 0 {
+		return 0.5 * math.Pow(10, -float64(digits))
+	}
+	e := math.Floor(math.Log10(math.Abs(v))) + 1 // 0.ddd form exponent
+	if !strings.HasPrefix(strings.TrimLeft(t, "+-"), "0.") {
+		e--
+	}
+	return 0.5 * math.Pow(10, e-float64(digits))
 }

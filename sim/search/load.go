@@ -25,11 +25,6 @@ func Load(dir string) (*Network, *sim.Dataset, error) {
 	return net, d, nil
 }
 
-// lagrangeOrder is the number of SP3 epochs used to interpolate a satellite
-// position (a 9th-degree Lagrange polynomial over 10 epochs is common
-// practice for 5- to 15-min SP3 orbits).
-const lagrangeOrder = 10
-
 // FromDataset builds the Network of an in-memory dataset. Satellite clocks
 // need positions in d.Orbits (orbits.sp3) covering the span; station clocks
 // need an entry in d.Stations. A single-clock reference becomes
@@ -107,7 +102,7 @@ func FromDataset(d *sim.Dataset) (*Network, error) {
 }
 
 // satPositions interpolates satellite id's Earth-fixed SP3 positions to
-// every epoch of d (Lagrange over the lagrangeOrder nearest valid epochs).
+// every epoch of d (orbits.Track: Lagrange over the orbits.LagrangePoints nearest valid epochs).
 func satPositions(d *sim.Dataset, id string) ([][3]float64, error) {
 	if d.Orbits == nil {
 		return nil, fmt.Errorf("search: satellite clock %q needs positions, but the dataset has no orbits.sp3", id)
@@ -117,17 +112,11 @@ func satPositions(d *sim.Dataset, id string) ([][3]float64, error) {
 	if si < 0 {
 		return nil, fmt.Errorf("search: satellite clock %q is not in orbits.sp3", id)
 	}
-	var ts []float64 // s since the dataset start
-	var ps [][3]float64
-	for e, t := range sp.Epochs {
-		if si < len(sp.Data[e]) && sp.Data[e][si].HasPos {
-			ts = append(ts, float64(int64(t)-int64(d.Start))*1e-9)
-			ps = append(ps, sp.Data[e][si].Pos)
-		}
+	tr := sp.Tracks(d.Start, false)[orbits.SatID(id)]
+	if tr == nil {
+		return nil, fmt.Errorf("search: satellite %q has fewer than %d positions in orbits.sp3", id, orbits.LagrangePoints)
 	}
-	if len(ts) < lagrangeOrder {
-		return nil, fmt.Errorf("search: satellite %q has %d positions in orbits.sp3, need at least %d", id, len(ts), lagrangeOrder)
-	}
+	ts := tr.T // s since the dataset start
 	span := float64(d.Epochs-1) * d.Interval
 	// Allow one SP3 interval of extrapolation at either end at most.
 	gapMax := 0.0
@@ -138,27 +127,8 @@ func satPositions(d *sim.Dataset, id string) ([][3]float64, error) {
 		return nil, fmt.Errorf("search: satellite %q: orbits.sp3 covers [%g, %g] s, the data span [0, %g] s", id, ts[0], ts[len(ts)-1], span)
 	}
 	out := make([][3]float64, d.Epochs)
-	lo := 0
 	for k := range out {
-		t := float64(k) * d.Interval
-		// Window of lagrangeOrder points centred on t.
-		for lo+lagrangeOrder < len(ts) && ts[lo+lagrangeOrder/2] < t {
-			lo++
-		}
-		w := ts[lo : lo+lagrangeOrder]
-		var r [3]float64
-		for i, ti := range w {
-			l := 1.0
-			for m, tm := range w {
-				if m != i {
-					l *= (t - tm) / (ti - tm)
-				}
-			}
-			for a := range 3 {
-				r[a] += l * ps[lo+i][a]
-			}
-		}
-		out[k] = r
+		out[k] = tr.At(float64(k) * d.Interval)
 	}
 	return out, nil
 }

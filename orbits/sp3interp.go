@@ -1,10 +1,8 @@
-package overlay
+package orbits
 
 import (
 	"fmt"
 	"sort"
-
-	"wallcross/orbits"
 )
 
 // LagrangePoints is the number of SP3 epochs each interpolated position
@@ -13,23 +11,24 @@ import (
 // error at the millimetre level at 5-min spacing.
 const LagrangePoints = 10
 
-// Orbit is one satellite's precise orbit in the celestial frame, for
-// interpolation. Times are seconds since Origin.
-type Orbit struct {
-	Sat    orbits.SatID
-	Origin orbits.Time
+// Track is one satellite's precise orbit from an SP3 file, for Lagrange
+// interpolation, in the Earth-fixed or the celestial frame. Times are
+// seconds since Origin.
+type Track struct {
+	Sat    SatID
+	Origin Time
 	T      []float64    // s since Origin, increasing
-	Pos    [][3]float64 // celestial position, m
+	Pos    [][3]float64 // position, m (frame as built by Tracks)
 }
 
-// OrbitsFromSP3 turns every satellite of an SP3 file into an Orbit with
-// its positions rotated to the celestial frame (package orbits' model),
-// dropping epochs without a position. Satellites with fewer than
-// LagrangePoints positions are left out.
-func OrbitsFromSP3(s *orbits.SP3, origin orbits.Time) map[orbits.SatID]*Orbit {
-	out := map[orbits.SatID]*Orbit{}
+// Tracks turns every satellite of an SP3 file into a Track, dropping
+// epochs without a position; with celestial the positions are rotated to
+// the celestial frame (ECEFToCelestial), otherwise they stay Earth-fixed.
+// Satellites with fewer than LagrangePoints positions are left out.
+func (s *SP3) Tracks(origin Time, celestial bool) map[SatID]*Track {
+	out := map[SatID]*Track{}
 	for j, sat := range s.Sats {
-		o := &Orbit{Sat: sat, Origin: origin}
+		o := &Track{Sat: sat, Origin: origin}
 		for i, ep := range s.Epochs {
 			if j >= len(s.Data[i]) {
 				continue
@@ -39,7 +38,11 @@ func OrbitsFromSP3(s *orbits.SP3, origin orbits.Time) map[orbits.SatID]*Orbit {
 				continue
 			}
 			o.T = append(o.T, ep.Sub(origin))
-			o.Pos = append(o.Pos, orbits.ECEFToCelestial(ep, e.Pos))
+			p := e.Pos
+			if celestial {
+				p = ECEFToCelestial(ep, p)
+			}
+			o.Pos = append(o.Pos, p)
 		}
 		if len(o.T) >= LagrangePoints {
 			out[sat] = o
@@ -49,21 +52,21 @@ func OrbitsFromSP3(s *orbits.SP3, origin orbits.Time) map[orbits.SatID]*Orbit {
 }
 
 // Span returns the first and last time of the orbit, s since Origin.
-func (o *Orbit) Span() (float64, float64) { return o.T[0], o.T[len(o.T)-1] }
+func (o *Track) Span() (float64, float64) { return o.T[0], o.T[len(o.T)-1] }
 
-// At returns the interpolated celestial position at t (s since Origin).
-// Inside the orbit's span it is the Lagrange polynomial through the
-// LagrangePoints nearest epochs (the window slides inward at the ends so
-// it never extrapolates); outside it, the position continues along a
-// straight line with the end velocity, which is only meant for bracketing
-// a root — check Span before trusting it.
-func (o *Orbit) At(t float64) [3]float64 {
+// At returns the interpolated position at t (s since Origin). Inside the
+// orbit's span, and up to one epoch spacing beyond either end, it is the
+// Lagrange polynomial through the LagrangePoints nearest epochs (the
+// window slides inward at the ends); farther out the position continues
+// along a straight line with the end velocity, which is only meant for
+// bracketing a root — check Span before trusting it.
+func (o *Track) At(t float64) [3]float64 {
 	n := len(o.T)
 	lo, hi := o.T[0], o.T[n-1]
-	if t < lo || t > hi {
-		e := lo
+	if t < lo-(o.T[1]-lo) || t > hi+(hi-o.T[n-2]) {
+		e := lo - (o.T[1] - lo)
 		if t > hi {
-			e = hi
+			e = hi + (hi - o.T[n-2])
 		}
 		p := o.interp(e)
 		h := 1.0
@@ -81,7 +84,7 @@ func (o *Orbit) At(t float64) [3]float64 {
 	return o.interp(t)
 }
 
-func (o *Orbit) interp(t float64) [3]float64 {
+func (o *Track) interp(t float64) [3]float64 {
 	n := len(o.T)
 	// First index of the window: centre it on t.
 	i := sort.SearchFloat64s(o.T, t) - LagrangePoints/2
@@ -113,9 +116,9 @@ func (o *Orbit) interp(t float64) [3]float64 {
 	return r
 }
 
-// checkGaps reports a satellite whose orbit has a hole wider than maxGap
+// CheckGaps reports a satellite whose orbit has a hole wider than maxGap
 // seconds inside [t0, t1].
-func (o *Orbit) checkGaps(t0, t1, maxGap float64) error {
+func (o *Track) CheckGaps(t0, t1, maxGap float64) error {
 	for k := 1; k < len(o.T); k++ {
 		if o.T[k] < t0 || o.T[k-1] > t1 {
 			continue
