@@ -2,7 +2,6 @@ package overlay
 
 import (
 	"fmt"
-	"math"
 	"sort"
 	"strings"
 
@@ -84,7 +83,7 @@ func Apply(cf *ClockFile, sp3 *orbits.SP3, walls []inject.Wall, opt Options) (*R
 	if origin < s0 || last > s1 {
 		return nil, fmt.Errorf("overlay: clock file %s spans %s to %s but the SP3 orbits span %s to %s: they must cover the clock epochs (different days?)", cf.Name, origin, last, s0, s1)
 	}
-	orbs := OrbitsFromSP3(sp3, origin)
+	orbs := sp3.Tracks(origin, true)
 	span := last.Sub(origin)
 
 	// Clock list in first-appearance order, with trajectories.
@@ -129,7 +128,7 @@ func Apply(cf *ClockFile, sp3 *orbits.SP3, walls []inject.Wall, opt Options) (*R
 			if interval <= 0 {
 				interval = 900
 			}
-			if err := o.checkGaps(0, span, 2.5*interval); err != nil {
+			if err := o.CheckGaps(0, span, 2.5*interval); err != nil {
 				missing = append(missing, err.Error())
 				continue
 			}
@@ -187,8 +186,7 @@ func Apply(cf *ClockFile, sp3 *orbits.SP3, walls []inject.Wall, opt Options) (*R
 	sort.Strings(refNames)
 
 	// Crossings of every clock with every wall.
-	type xing struct{ c []inject.Crossing } // per wall
-	cross := map[string]*xing{}
+	cross := map[string][]inject.Crossing{} // per clock with a position, one per wall
 	for _, w := range walls {
 		ev, err := w.Event()
 		if err != nil {
@@ -200,13 +198,13 @@ func Apply(cf *ClockFile, sp3 *orbits.SP3, walls []inject.Wall, opt Options) (*R
 		if c.traj == nil {
 			continue
 		}
-		x := &xing{}
+		var x []inject.Crossing
 		for i := range walls {
 			cr, err := walls[i].Cross(c.name, c.family, c.traj)
 			if err != nil {
 				return nil, fmt.Errorf("overlay: %w", err)
 			}
-			x.c = append(x.c, cr)
+			x = append(x, cr)
 			res.Crossings = append(res.Crossings, cr.Record())
 			if cr.TCross < -3600 || cr.TCross > span+3600 {
 				warn("wall %d crosses %s at %.0f s, outside the clock file's span (0 to %.0f s)", walls[i].ID, c.name, cr.TCross, span)
@@ -215,26 +213,31 @@ func Apply(cf *ClockFile, sp3 *orbits.SP3, walls []inject.Wall, opt Options) (*R
 		cross[c.name] = x
 	}
 	phase := func(name string, t float64) float64 {
-		x := cross[name]
 		s := 0.0
-		for _, cr := range x.c {
+		for _, cr := range cross[name] {
 			s += cr.PhaseAt(t)
 		}
 		return s
 	}
+	// The reference's phase at each epoch, once per epoch rather than once
+	// per record.
+	refPhase := map[orbits.Time]float64{}
 
 	// Rewrite bias values.
 	out := make([]byte, len(cf.Data))
 	copy(out, cf.Data)
 	res.Delta = make([]float64, len(cf.Records))
 	for k, r := range cf.Records {
-		if cross[r.Name] == nil {
+		if _, ok := cross[r.Name]; !ok {
 			continue
 		}
 		t := r.Epoch.Sub(origin)
-		ref := 0.0
-		for _, n := range refNames {
-			ref += res.Refs[n] * phase(n, t)
+		ref, ok := refPhase[r.Epoch]
+		if !ok {
+			for _, n := range refNames {
+				ref += res.Refs[n] * phase(n, t)
+			}
+			refPhase[r.Epoch] = ref
 		}
 		d := phase(r.Name, t) - ref
 		if d == 0 {
@@ -261,25 +264,4 @@ func stationTrajectory(origin orbits.Time, ecef [3]float64) inject.Trajectory {
 	return func(t float64) [3]float64 {
 		return orbits.ECEFToCelestial(origin.Add(t), ecef)
 	}
-}
-
-// printedStep returns half a unit of the last printed digit of a value
-// printed like s (the rounding bound of that format).
-func printedStep(s string) float64 {
-	t := strings.TrimSpace(s)
-	ei := strings.IndexAny(t, "EeDd")
-	dot := strings.IndexByte(t, '.')
-	if ei < 0 || dot < 0 {
-		return math.NaN()
-	}
-	digits := ei - dot - 1
-	v, err := parseFortranFloat(t)
-	if err != nil || v == 0 {
-		return 0.5 * math.Pow(10, -float64(digits))
-	}
-	e := math.Floor(math.Log10(math.Abs(v))) + 1 // 0.ddd form exponent
-	if !strings.HasPrefix(strings.TrimLeft(t, "+-"), "0.") {
-		e--
-	}
-	return 0.5 * math.Pow(10, e-float64(digits))
 }
