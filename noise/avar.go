@@ -72,19 +72,7 @@ func sin4Integral(beta, m float64) float64 {
 		s2 := s * s
 		return math.Pow(2*math.Sin(u), beta) * s2 * s2
 	}
-	var leg quad.Legendre
-	xs := make([]float64, 8)
-	ws := make([]float64, 8)
-	leg.FixedLocations(xs, ws, -1, 1)
-	w := math.Pi / 2 / float64(panels)
-	sum := 0.0
-	for p := range panels {
-		a := float64(p) * w
-		for i := range xs {
-			sum += ws[i] * f(a+(xs[i]+1)*w/2)
-		}
-	}
-	return sum * w / 2
+	return quarterPeriodQuad(f, panels)
 }
 
 // AVAR returns the expected Allan variance of the clock model at averaging
@@ -169,19 +157,7 @@ func sin6Integral(beta, m float64) float64 {
 		s2 := s * s
 		return math.Pow(2*su, beta) * s2 * s2 * s2 / (su * su)
 	}
-	var leg quad.Legendre
-	xs := make([]float64, 8)
-	ws := make([]float64, 8)
-	leg.FixedLocations(xs, ws, -1, 1)
-	w := math.Pi / 2 / float64(panels)
-	sum := 0.0
-	for p := range panels {
-		a := float64(p) * w
-		for i := range xs {
-			sum += ws[i] * f(a+(xs[i]+1)*w/2)
-		}
-	}
-	return sum * w / 2
+	return quarterPeriodQuad(f, panels)
 }
 
 // MVAR returns the expected modified Allan variance of the model: the
@@ -207,4 +183,22 @@ func (m ClockModel) MVAR(tau, tau0 float64) float64 {
 		v += 4 * p.Amplitude * p.Amplitude * s * s * s * s * s * s / (tau * tau * den * den)
 	}
 	return v
+}
+
+// quarterPeriodQuad integrates f over [0, π/2] by composite 8-point
+// Gauss–Legendre quadrature on the given number of equal panels.
+func quarterPeriodQuad(f func(float64) float64, panels int) float64 {
+	var leg quad.Legendre
+	xs := make([]float64, 8)
+	ws := make([]float64, 8)
+	leg.FixedLocations(xs, ws, -1, 1)
+	w := math.Pi / 2 / float64(panels)
+	sum := 0.0
+	for p := range panels {
+		a := float64(p) * w
+		for i := range xs {
+			sum += ws[i] * f(a+(xs[i]+1)*w/2)
+		}
+	}
+	return sum * w / 2
 }

@@ -8,9 +8,10 @@ import (
 	"io"
 	"math"
 	"os"
-	"path/filepath"
 	"strconv"
 	"strings"
+
+	"wallcross/internal/atomicfile"
 )
 
 // SP3 holds a precise-orbit file in the Extended Standard Product 3 format
@@ -624,24 +625,8 @@ func WriteSP3File(path string, s *SP3) error {
 }
 
 func writeAtomic(path string, data []byte) error {
-	dir := filepath.Dir(path)
-	f, err := os.CreateTemp(dir, "."+filepath.Base(path)+".tmp*")
-	if err != nil {
-		return fmt.Errorf("orbits: could not create %s: %w", path, err)
-	}
-	tmp := f.Name()
-	if _, err := f.Write(data); err != nil {
-		f.Close()
-		os.Remove(tmp)
-		return fmt.Errorf("orbits: could not write %s: %w", path, err)
-	}
-	if err := f.Close(); err != nil {
-		os.Remove(tmp)
-		return fmt.Errorf("orbits: could not write %s: %w", path, err)
-	}
-	if err := os.Rename(tmp, path); err != nil {
-		os.Remove(tmp)
-		return fmt.Errorf("orbits: could not rename to %s: %w", path, err)
+	if _, err := atomicfile.WriteBytes(path, data); err != nil {
+		return fmt.Errorf("orbits: %w", err)
 	}
 	return nil
 }

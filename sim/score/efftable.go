@@ -10,6 +10,8 @@ import (
 	"path/filepath"
 	"sort"
 	"strconv"
+
+	"wallcross/internal/atomicfile"
 )
 
 // effColumns is the header of an efficiency table (contract).
@@ -254,27 +256,8 @@ func MergeEfficiency(tables ...[]EffRow) ([]EffRow, error) {
 // writeFileAtomic writes data to a temporary file next to path, syncs it
 // and renames it over path, so readers never see a half-written file.
 func writeFileAtomic(path string, data []byte) error {
-	f, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".tmp*")
-	if err != nil {
-		return fmt.Errorf("score: could not write %s: %w", path, err)
-	}
-	tmp := f.Name()
-	_, err = f.Write(data)
-	if err == nil {
-		err = f.Sync()
-	}
-	if cerr := f.Close(); err == nil {
-		err = cerr
-	}
-	if err == nil {
-		err = os.Chmod(tmp, 0o644)
-	}
-	if err == nil {
-		err = os.Rename(tmp, path)
-	}
-	if err != nil {
-		os.Remove(tmp)
-		return fmt.Errorf("score: could not write %s: %w", path, err)
+	if _, err := atomicfile.WriteBytes(path, data); err != nil {
+		return fmt.Errorf("score: %w", err)
 	}
 	return nil
 }

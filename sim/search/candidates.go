@@ -4,9 +4,9 @@ import (
 	"bufio"
 	"fmt"
 	"io"
-	"os"
-	"path/filepath"
 	"strconv"
+
+	"wallcross/internal/atomicfile"
 )
 
 // CandidateColumns is the header of a candidate file (DESIGN.md §5: t0_s
@@ -54,32 +54,10 @@ func WriteCandidates(w io.Writer, cands []Candidate) error {
 // WriteCandidatesFile writes cands to path atomically: to a temporary file
 // in the same directory, synced, then renamed over path. On error no file
 // is left at path and the temporary file is removed.
-func WriteCandidatesFile(path string, cands []Candidate) (err error) {
-	f, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".tmp*")
+func WriteCandidatesFile(path string, cands []Candidate) error {
+	_, _, err := atomicfile.Write(path, func(w *bufio.Writer) error { return WriteCandidates(w, cands) })
 	if err != nil {
-		return fmt.Errorf("search: could not create candidate file: %w", err)
-	}
-	tmp := f.Name()
-	defer func() {
-		if err != nil {
-			f.Close()
-			os.Remove(tmp)
-		}
-	}()
-	if err = WriteCandidates(f, cands); err != nil {
-		return err
-	}
-	if err = f.Sync(); err != nil {
-		return fmt.Errorf("search: could not write candidate file: %w", err)
-	}
-	if err = f.Close(); err != nil {
-		return fmt.Errorf("search: could not write candidate file: %w", err)
-	}
-	if err = os.Chmod(tmp, 0o644); err != nil {
-		return fmt.Errorf("search: could not write candidate file: %w", err)
-	}
-	if err = os.Rename(tmp, path); err != nil {
-		return fmt.Errorf("search: could not write candidate file: %w", err)
+		return fmt.Errorf("search: candidate file: %w", err)
 	}
 	return nil
 }
