@@ -2,10 +2,10 @@ package noise
 
 import (
 	"fmt"
-	"math"
 	"math/rand/v2"
+	"sync"
 
-	"gonum.org/v1/gonum/dsp/fourier"
+	"wallcross/internal/fft"
 )
 
 // KasdinImpulse returns the first n impulse-response coefficients of the
@@ -25,151 +25,138 @@ func KasdinImpulse(a float64, n int) []float64 {
 	return h
 }
 
-// flickerConv holds the convolution buffers for the a = 1 Kasdin filter.
-// Its zh (impulse-response spectrum) and zv buffers may be kept between
-// calls of the same length (see Generator).
+// flickerConv holds the buffers of the linear convolution with the a = 1
+// Kasdin filter: the series of n samples is zero-padded to L ≥ 2n reals,
+// packed two per complex value into an M = L/2-point transform (package
+// internal/fft, whose spectra stay in bit-reversed order), multiplied by the
+// kernel spectrum and transformed back; only the first half of the
+// transform is non-zero on input and only the first half is needed on
+// output, so both transforms are pruned. Its z buffer and kernel may be
+// kept between calls (see Generator).
 type flickerConv struct {
-	v  []float64    // filter input, length n
-	n  int          // series length
-	l  int          // padded length L ≥ 2n, a power of two
-	zv []complex128 // L/2 packed input / product buffer
-	zh []complex128 // L/2 packed spectrum of the impulse response (nil until computed)
+	n     int          // series length
+	m     int          // packed transform length M = L/2
+	plan  *fft.Plan    // M-point plan
+	z     []complex128 // packed input / product buffer, M values (nil until needed)
+	dirty bool         // z holds a previous result
+	kern  *kernelSpec  // nil until first needed
 }
 
 // convLen returns the padded length L of the linear convolution of two
-// length-n sequences: the smallest power of two ≥ 2n. Packed into L/2
-// complex values, gonum's radix-2 transform is about twice as fast as its
-// FFTPACK real transform of a 5-smooth length (measured here) and needs
-// 16·L bytes for the two spectra, less than FFTPACK's spectra and work
-// space even when L is up to twice the 5-smooth length.
+// length-n sequences: the smallest power of two ≥ 2n, at least 8.
 func convLen(n int) int {
-	p := 2
+	p := 8
 	for p < 2*n {
 		p *= 2
 	}
 	return p
 }
 
-// input returns a zeroed input buffer of length n for the caller to fill.
+// input returns a zeroed input buffer of length n for the caller to fill:
+// the first n reals of the packed transform buffer.
 func (g *flickerConv) input(n int) []float64 {
-	if g.n != n || g.zv == nil {
-		g.n, g.l = n, convLen(n)
-		g.zv, g.zh = nil, nil
+	if g.n != n || g.plan == nil {
+		m := convLen(n) / 2
+		if m != g.m {
+			g.m, g.z, g.kern, g.dirty = m, nil, nil, false
+			g.plan = fft.NewPlan(m)
+		}
+		g.n = n
 	}
-	if cap(g.v) >= n {
-		g.v = g.v[:n]
-		clear(g.v)
-	} else {
-		g.v = make([]float64, n)
+	if g.z == nil {
+		g.z = make([]complex128, g.m)
 	}
-	return g.v
+	f := fft.Floats(g.z)
+	if g.dirty {
+		clear(f[:g.m]) // the second half is never read (ForwardHalfZero)
+		g.dirty = false
+	}
+	return f[:n]
 }
 
 // apply adds the linear convolution of the input with the a = 1 impulse
-// response (first n outputs) to x.
-func (g *flickerConv) apply(x []float64) { g.applyPacked(x) }
-
-// applyPacked does the convolution of apply with real sequences packed two
-// samples per complex value (z_k = v_2k + i v_2k+1) into half-length radix-2
-// complex FFTs (the standard real-FFT packing, e.g. Press et al., Numerical
-// Recipes §12.3, from memory). Peak memory: two M = L/2 complex buffers.
-func (g *flickerConv) applyPacked(x []float64) {
-	n, l := g.n, g.l
-	m := l / 2
-	if g.zv == nil {
-		g.zv = make([]complex128, m)
+// response (first n outputs) to x. The kernel is truncated after M samples:
+// that leaves every output k < n ≤ M unchanged (they use h_j, j ≤ k only)
+// and still no product wraps round the circular length L = 2M, so the
+// kernel spectrum depends on M alone.
+func (g *flickerConv) apply(x []float64) {
+	if g.kern == nil {
+		g.kern = kernelFor(g.m)
 	}
-	zv := g.zv
-	clear(zv)
-	for k, v := range g.v {
-		if k&1 == 0 {
-			zv[k/2] = complex(v, 0)
-		} else {
-			zv[k/2] = complex(real(zv[k/2]), v)
-		}
-	}
-	if g.zh == nil {
-		zh := make([]complex128, m)
-		hk := 1.0
-		for k := range n {
-			if k&1 == 0 {
-				zh[k/2] = complex(hk, 0)
-			} else {
-				zh[k/2] = complex(real(zh[k/2]), hk)
-			}
-			hk *= (0.5 + float64(k)) / float64(k+1)
-		}
-		fourier.CoefficientsRadix2(zh)
-		g.zh = zh
-	}
-	zh := g.zh
-	fourier.CoefficientsRadix2(zv)
-	// unpack: V_j = E_j + W^j O_j with E_j = (Z_j + Z*_{M−j})/2,
-	// O_j = (Z_j − Z*_{M−j})/(2i), W = exp(−2πi/L); multiply by H_j; repack
-	// Z'_j = E'_j + i O'_j with E'_j = (P_j + P*_{M−j})/2,
-	// O'_j = (P_j − P*_{M−j})/(2W^j). Pairs (j, M−j) are done together.
-	spec := func(z []complex128, j, jc int, w complex128) complex128 {
-		a, b := z[j], cmplxConj(z[jc])
-		return (a+b)*0.5 + w*(a-b)*complex(0, -0.5)
-	}
-	// j = 0 and j = M (both real)
-	{
-		e, o := real(zv[0]), imag(zv[0])
-		he, ho := real(zh[0]), imag(zh[0])
-		p0 := (e + o) * (he + ho)
-		pm := (e - o) * (he - ho)
-		zv[0] = complex((p0+pm)/2, (p0-pm)/2)
-	}
-	const anchor = 256
-	var w complex128
-	ws, wc := math.Sincos(-2 * math.Pi / float64(l))
-	step := complex(wc, ws)
-	for j := 1; j <= m/2; j++ {
-		if (j-1)%anchor == 0 {
-			s, c := math.Sincos(-2 * math.Pi * float64(j) / float64(l))
-			w = complex(c, s)
-		} else {
-			w *= step
-		}
-		jc := m - j
-		wc := -cmplxConj(w) // W^{M−j} = −conj(W^j)
-		pj := spec(zv, j, jc, w) * spec(zh, j, jc, w)
-		pc := pj
-		if jc != j {
-			pc = spec(zv, jc, j, wc) * spec(zh, jc, j, wc)
-		}
-		// 1/W^j = conj(W^j) since |W| = 1
-		zv[j] = (pj+cmplxConj(pc))*0.5 + (pj-cmplxConj(pc))*cmplxConj(w)*complex(0, 0.5)
-		if jc != j {
-			zv[jc] = (pc+cmplxConj(pj))*0.5 + (pc-cmplxConj(pj))*cmplxConj(wc)*complex(0, 0.5)
-		}
-	}
-	fourier.SequenceRadix2(zv)
-	inv := 1 / float64(m)
-	for k := range x {
-		if k&1 == 0 {
-			x[k] += real(zv[k/2]) * inv
-		} else {
-			x[k] += imag(zv[k/2]) * inv
-		}
+	g.plan.ForwardHalfZero(g.z)
+	g.plan.MultiplyPacked(g.z, g.kern.coef)
+	g.plan.InverseFirstHalf(g.z)
+	g.dirty = true
+	f := fft.Floats(g.z)[:len(x)]
+	for k, v := range f {
+		x[k] += v
 	}
 }
 
-func cmplxConj(c complex128) complex128 { return complex(real(c), -imag(c)) }
+// kernelSpec is the packed spectrum of the a = 1 Kasdin impulse response
+// (first M samples) in the coefficient form of fft.Plan.MultiplyPacked,
+// normalised by 1/M. It is read-only once built.
+type kernelSpec struct {
+	m    int
+	coef []complex128
+}
+
+// kernelCacheMax bounds the process-wide kernel cache (16 bytes per packed
+// value: 64 MiB holds M ≤ 2^22, series up to 2^22 samples).
+const kernelCacheMax = 64 << 20
+
+// kernelCache keeps the kernel of the last length used by ClockModel.Phase,
+// so that repeated series of one length skip the kernel transform; longer
+// kernels are rebuilt per call unless a Generator keeps them.
+var kernelCache struct {
+	sync.Mutex
+	k *kernelSpec
+}
+
+// kernelFor returns the kernel spectrum for the packed length m.
+func kernelFor(m int) *kernelSpec {
+	kernelCache.Lock()
+	k := kernelCache.k
+	kernelCache.Unlock()
+	if k != nil && k.m == m {
+		return k
+	}
+	z := make([]complex128, m)
+	h := fft.Floats(z)[:m]
+	hk := 1.0
+	for j := range h {
+		h[j] = hk
+		hk *= (0.5 + float64(j)) / float64(j+1)
+	}
+	p := fft.NewPlan(m)
+	p.ForwardHalfZero(z)
+	p.KernelCoefficients(z, 1/float64(m))
+	k = &kernelSpec{m: m, coef: z}
+	if 16*m <= kernelCacheMax {
+		kernelCache.Lock()
+		kernelCache.k = k
+		kernelCache.Unlock()
+	}
+	return k
+}
 
 // Generator produces phase series of one fixed length n, keeping the FFT
-// buffers and the filter spectrum between calls: for many clocks of the
-// same length it saves one of the three FFTs and all large allocations but
-// the result. It is not safe for concurrent use; give each worker its own.
-// Its output is bit-for-bit that of ClockModel.Phase.
+// buffer and the filter spectrum between calls: for many clocks of the same
+// length it saves the kernel transform (when ClockModel.Phase's own cache
+// does not hold it) and all large allocations but the result. It is not
+// safe for concurrent use; give each worker its own (they share the cached
+// kernel, which is read-only). Its output is bit-for-bit that of
+// ClockModel.Phase.
 type Generator struct {
 	n    int
 	conv flickerConv
 }
 
 // NewGenerator returns a Generator for series of n samples. Memory held
-// between calls: 8n (input) + 16L (two spectra) bytes, L = power of two ≥ 2n,
-// once a model with a flicker term has been generated.
+// between calls, once a model with a flicker term has been generated:
+// 8L bytes of transform buffer plus the 8L-byte kernel spectrum, L = the
+// power of two ≥ 2n (32 bytes per sample when n is a power of two, 54 for
+// n = 10⁷).
 func NewGenerator(n int) *Generator {
 	if n < 0 {
 		panic(fmt.Sprintf("noise: NewGenerator: n = %d < 0", n))

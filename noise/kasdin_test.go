@@ -3,6 +3,8 @@ package noise
 import (
 	"math"
 	"math/rand/v2"
+	"slices"
+	"sync"
 	"testing"
 )
 
@@ -21,7 +23,7 @@ func directConv(v []float64) []float64 {
 	return out
 }
 
-// TestFlickerConvolution: the packed radix-2 FFT convolution reproduces the
+// TestFlickerConvolution: the packed, pruned FFT convolution reproduces the
 // direct linear convolution, for white input and for the summed
 // (random-walk) input used by flicker FM.
 func TestFlickerConvolution(t *testing.T) {
@@ -76,6 +78,34 @@ func TestGeneratorMatchesPhase(t *testing.T) {
 					t.Fatalf("round %d model %d: sample %d differs: %g vs %g", round, i, k, a[k], b[k])
 				}
 			}
+		}
+	}
+}
+
+// TestPhaseConcurrentKernelCache: goroutines generating series of two
+// lengths at once (so the process-wide kernel cache keeps changing hands)
+// give the same bits as serial calls; run under -race this also checks the
+// cache's locking.
+func TestPhaseConcurrentKernelCache(t *testing.T) {
+	m := ClockModel{H: [5]float64{1e-25, 1e-24, 1e-23, 1e-28, 1e-34}}
+	lengths := []int{3000, 5000, 3000, 5000, 3000, 5000}
+	want := make([][]float64, len(lengths))
+	for i, n := range lengths {
+		want[i] = m.Phase(rand.New(rand.NewPCG(uint64(i), 1)), n, 30)
+	}
+	got := make([][]float64, len(lengths))
+	var wg sync.WaitGroup
+	for i, n := range lengths {
+		wg.Go(func() {
+			for range 3 {
+				got[i] = m.Phase(rand.New(rand.NewPCG(uint64(i), 1)), n, 30)
+			}
+		})
+	}
+	wg.Wait()
+	for i := range lengths {
+		if !slices.Equal(got[i], want[i]) {
+			t.Errorf("series %d (n=%d) differs from the serial one", i, lengths[i])
 		}
 	}
 }

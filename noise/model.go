@@ -111,22 +111,29 @@ func (m ClockModel) Validate() error {
 
 // Phase returns n samples of the clock phase x in seconds, spaced tau0
 // seconds, with x[0] at t = 0. Random draws come only from rng, in a fixed
-// order (n normals per non-zero term, in Term order), so the same seed gives
-// the same series.
+// order (n standard normals per non-zero term, in Term order, two normals
+// from each rng.Uint64() by the ziggurat method, see fillNormal), so the
+// same seed gives the same series.
 //
 // Method: white PM as white phase; white FM and random-walk FM by exact
 // summation of white frequency; flicker PM (on phase) and flicker FM (on
 // frequency) by the Kasdin–Walter filter (1 − z⁻¹)^(−1/2), both applied in
 // one linear FFT convolution (the running sum that turns flicker frequency
 // into phase commutes with the filter) of padded length L = the power of two
-// ≥ 2n, packed into L/2-point complex radix-2 transforms. Noise levels
-// follow K&W 1992 eq. (39): Q_d = h_α / (2 (2π)^α τ0^(α−1)) for the phase
-// process (see noise.Qd).
+// ≥ 2n, packed into one L/2-point complex transform each way (package
+// internal/fft; the transforms skip the zero half of the input and the
+// unneeded half of the output, and the kernel spectrum of the last length
+// used is cached process-wide up to 64 MiB). Noise levels follow K&W 1992
+// eq. (39): Q_d = h_α / (2 (2π)^α τ0^(α−1)) for the phase process (see
+// noise.Qd).
 //
-// Peak memory: about 8 bytes per sample (the result) when both flicker terms
-// are zero; otherwise 8n (result) + 8n (filter input) + 16L (two half-length
-// complex spectra), i.e. 40–72 bytes per sample (48 when n is a power of
-// two; 70 for n = 10⁷).
+// Peak memory: 8 bytes per sample (the result, plus a fixed 16 KiB) when
+// both flicker terms are zero; otherwise 8n (result) + 8L (transform
+// buffer) + 8L (kernel spectrum, cached or built for the call) bytes, i.e.
+// 40 bytes per sample when n is a power of two and 62 for n = 10⁷
+// (L = 2^25); the kernel part is shared by all series of the same L.
+// Allocated per call: 24 bytes per sample when n is a power of two ≤ 2^22
+// and the kernel is cached.
 // It panics if n < 0 or tau0 ≤ 0 or m is invalid (programmer errors; call
 // Validate first for user input).
 func (m ClockModel) Phase(rng *rand.Rand, n int, tau0 float64) []float64 {
@@ -163,14 +170,20 @@ func Qd(t Term, h, tau0 float64) float64 {
 	return h / (2 * math.Pow(2*math.Pi, a) * math.Pow(tau0, a-1))
 }
 
-// addNoise adds the five power-law terms to x.
+// normalChunk is the number of normals drawn at a time for the summed
+// terms (even, so that chunked and whole-series draws are the same).
+const normalChunk = 2048
+
+// addNoise adds the five power-law terms to x (zero on entry).
 func (m ClockModel) addNoise(x []float64, rng *rand.Rand, tau0 float64, g *flickerConv) {
 	n := len(x)
+	var buf [normalChunk]float64
 	// White PM: x_k = σ w_k with σ² = Q_d(x) = h_2/(8π²τ0).
 	if h := m.H[WhitePM]; h > 0 {
 		s := math.Sqrt(Qd(WhitePM, h, tau0))
+		fillNormal(rng, x)
 		for k := range x {
-			x[k] += s * rng.NormFloat64()
+			x[k] *= s
 		}
 	}
 	flicker := m.H[FlickerPM] > 0 || m.H[FlickerFM] > 0
@@ -181,17 +194,23 @@ func (m ClockModel) addNoise(x []float64, rng *rand.Rand, tau0 float64, g *flick
 	// Flicker PM: phase input of the a = 1 filter, σ² = Q_d(x) = h_1/(4π).
 	if h := m.H[FlickerPM]; h > 0 {
 		s := math.Sqrt(Qd(FlickerPM, h, tau0))
-		for k := range n {
-			v[k] = s * rng.NormFloat64()
+		fillNormal(rng, v)
+		for k := range v {
+			v[k] *= s
 		}
 	}
 	// White FM: y_k white with σ_y² = h_0/(2τ0); x_{k+1} = x_k + τ0 y_k.
 	if h := m.H[WhiteFM]; h > 0 {
 		s := tau0 * math.Sqrt(h/(2*tau0))
 		c := 0.0
-		for k := range n {
-			x[k] += c
-			c += s * rng.NormFloat64()
+		for k0 := 0; k0 < n; k0 += normalChunk {
+			w := buf[:min(normalChunk, n-k0)]
+			fillNormal(rng, w)
+			xs := x[k0 : k0+len(w)]
+			for i, r := range w {
+				xs[i] += c
+				c += s * r
+			}
 		}
 	}
 	// Flicker FM: y = filter(white, σ² = Q_d(y) = π h_{−1}); x = τ0 Σ_{j<k} y_j.
@@ -200,19 +219,29 @@ func (m ClockModel) addNoise(x []float64, rng *rand.Rand, tau0 float64, g *flick
 	if h := m.H[FlickerFM]; h > 0 {
 		s := tau0 * math.Sqrt(math.Pi*h)
 		c := 0.0
-		for k := range n {
-			v[k] += c
-			c += s * rng.NormFloat64()
+		for k0 := 0; k0 < n; k0 += normalChunk {
+			w := buf[:min(normalChunk, n-k0)]
+			fillNormal(rng, w)
+			vs := v[k0 : k0+len(w)]
+			for i, r := range w {
+				vs[i] += c
+				c += s * r
+			}
 		}
 	}
 	// Random-walk FM: y_{k+1} = y_k + w_k, σ_w² = 2π² h_{−2} τ0; x = τ0 Σ y.
 	if h := m.H[RandomWalkFM]; h > 0 {
 		s := tau0 * math.Sqrt(2*math.Pi*math.Pi*h*tau0)
 		y, c := 0.0, 0.0
-		for k := range n {
-			x[k] += c
-			c += y
-			y += s * rng.NormFloat64()
+		for k0 := 0; k0 < n; k0 += normalChunk {
+			w := buf[:min(normalChunk, n-k0)]
+			fillNormal(rng, w)
+			xs := x[k0 : k0+len(w)]
+			for i, r := range w {
+				xs[i] += c
+				c += y
+				y += s * r
+			}
 		}
 	}
 	if flicker {
