@@ -188,6 +188,10 @@ type kernelTable struct {
 	phase int       // number of phase bins
 }
 
+// thin reports whether the kernel is the bare thin-wall spike: one
+// interval at the crossing (value 1/τ0, no AR filter).
+func (k *kernelTable) thin() bool { return k.n == 1 && k.lo == 0 }
+
 // phaseBins is the number of crossing-phase bins of a thick-wall kernel.
 const phaseBins = 32
 

@@ -234,9 +234,15 @@ type series struct {
 	// zm[interval·nd + data clock]: z = C⁻¹·A·y and weight m. Interval
 	// major, so the clocks a sweep touches at one t0 lie close in memory.
 	zm []zm
-	zc [][]zm    // the same, clock major: zc[data clock][interval]
-	nd int       // data clocks
-	zr []float64 // reference: −1ᵀC⁻¹A·y
+	// The same, clock major: zz[data clock][interval] = z, mw[…][…] = m.
+	zz, mw [][]float64
+	// wc[data clock] is its weight m where present (1/σ_j², one value per
+	// clock), and miss[data clock][k] counts its absent intervals before
+	// interval k (length nInt + 1): [i, j) is complete iff miss[j] = miss[i].
+	wc   []float64
+	miss [][]int32
+	nd   int       // data clocks
+	zr   []float64 // reference: −1ᵀC⁻¹A·y
 }
 
 // prepared holds the whitened data of a network, ready for the bank scan.
@@ -246,6 +252,9 @@ type prepared struct {
 	raw   series    // from the unclipped ones (candidate amplitudes)
 	w     []float64 // per interval: W = Σ_j present 1/σ_j²
 	gamma []float64 // per interval: γ = σ_r²/(1 + σ_r²·W)
+	// wrun[k] counts the changes of (W, γ) up to interval k: both are
+	// constant over [i, j] iff wrun[i] = wrun[j].
+	wrun  []int32
 	noise NoiseModel
 }
 
@@ -426,6 +435,13 @@ func prepare(net *Network, cfg *Config, window int) (*prepared, error) {
 		p.w[k] = wsum
 		p.gamma[k] = sr2 / (1 + sr2*wsum)
 	}
+	p.wrun = make([]int32, nInt)
+	for k := 1; k < nInt; k++ {
+		p.wrun[k] = p.wrun[k-1]
+		if p.w[k] != p.w[k-1] || p.gamma[k] != p.gamma[k-1] {
+			p.wrun[k]++
+		}
+	}
 	p.data = whiten(cy, sig2, sr2, a)
 	p.raw = whiten(ys, sig2, sr2, a)
 	return p, nil
@@ -468,12 +484,19 @@ func whiten(es [][]float64, sig2 []float64, sr2 float64, a []float64) series {
 		}
 	}
 	out.zr = zrt
-	out.zc = make([][]zm, nd)
-	for i := range out.zc {
-		out.zc[i] = make([]zm, nInt)
+	out.zz, out.mw = make([][]float64, nd), make([][]float64, nd)
+	out.wc, out.miss = make([]float64, nd), make([][]int32, nd)
+	for i := range out.zz {
+		zz, mw, miss := make([]float64, nInt), make([]float64, nInt), make([]int32, nInt+1)
 		for k := range nInt {
-			out.zc[i][k] = out.zm[k*nd+i]
+			zz[k], mw[k] = out.zm[k*nd+i].z, out.zm[k*nd+i].m
+			miss[k+1] = miss[k]
+			if mw[k] == 0 {
+				miss[k+1]++
+			}
 		}
+		out.zz[i], out.mw[i], out.miss[i] = zz, mw, miss
+		out.wc[i] = 1 / sig2[i]
 	}
 	return out
 }

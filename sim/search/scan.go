@@ -19,12 +19,15 @@ type searcher struct {
 	kg     [][]float64     // [coupling][scan clock] K/τ0, the thin-wall spike, 1/s
 	phased bool            // some kernel depends on the crossing phase (thick walls)
 	kern   [][]kernelTable // [speed][thickness]
-	dirs   [][3]float64
-	m0     int     // first t0 grid point: t0 = (m0 + m)·dt0
-	nT0    int     // t0 grid points
-	dt0    float64 // t0 grid step, s
-	half   int     // half width H of the per-t0 interval buffer
-	radius float64 // largest clock distance from the geocentre, m
+	// thinOnly[speed]: every thickness class is the bare thin spike, so
+	// the per-grid-point crossing table is needed only off the lane form.
+	thinOnly []bool
+	dirs     [][3]float64
+	m0       int     // first t0 grid point: t0 = (m0 + m)·dt0
+	nT0      int     // t0 grid points
+	dt0      float64 // t0 grid step, s
+	half     int     // half width H of the per-t0 interval buffer
+	radius   float64 // largest clock distance from the geocentre, m
 }
 
 // nScan returns the number of scan clocks (data clocks plus the reference).
@@ -60,22 +63,49 @@ type zm struct{ z, m float64 }
 // together (keeps the per-block crossing table in L1 cache).
 const blockLen = 32
 
+// maxSub is the largest number of t0 grid points per interval (Config).
+const maxSub = 16
+
 // worker holds one goroutine's scratch and its running maxima.
 type worker struct {
 	proj  [][]float64 // [scan clock][epoch] n̂·r, m
 	x     []float64   // [scan clock × blockLen] crossing time, intervals since the first epoch (if keepX)
 	keepX bool        // fill x (tests)
-	ci    []int32     // [scan clock × blockLen] crossing interval
-	ph    []uint8     // [scan clock × blockLen] crossing phase bin
-	g, r  []float64   // per-t0 interval buffers: Σ m·K·g, reference K·g
+	// perElement, if set, makes every clock of every block take the
+	// per-element path (tests compare it with the lane path).
+	perElement bool
+	ci         []int32 // [scan clock × blockLen] crossing interval (per-element clocks, or every clock if needCI)
+	ph         []uint8 // [scan clock × blockLen] crossing phase bin
+	// Lane form of a block's crossings. Grid point mm of the block lies in
+	// interval base[mm] = (m0 + mm) div S (S = t0 points per interval); its
+	// lane is mm mod S. When uni[c], clock c's crossing interval is
+	// base[mm] + dl[c·maxSub + mm mod S] for every mm of the block: the lag
+	// in whole intervals is constant along each lane.
+	uni  []bool
+	dl   []int32
+	base []int     // [blockLen]
+	rl   []float64 // [maxSub] lane offsets within the interval
+	// Interpolation nodes of the crossing times (blockCrossings), kept from
+	// block to block: nodes[(speed·scan clocks + c)·4 + k] is the exact
+	// crossing at the first grid point of block nodeBlk[speed] − 1 + k.
+	nodes   []float64
+	nodeBlk []int     // [speed] (−2: none)
+	g, r    []float64 // per-t0 interval buffers: Σ m·K·g, reference K·g
 	// Per-block results and the thin-wall block buffers.
 	bnum, bden, bq []float64 // [blockLen] numerator, denominator, Σ m·(K·g)²
-	boff           []int     // [blockLen] half − interval of t0
-	bg, br         []float64 // [blockLen × (2·half+1)] G and R per t0
-	best           []float64 // per t0: largest |ρ|
-	bestID         []int     // per t0: its template id (−1: none)
-	bestNum        []float64 // per t0: its numerator
-	bestDen        []float64 // per t0: its denominator
+	// bg, br: G and R of the block, row major by buffer entry b:
+	// bg[b·blockLen + mm] is G at interval base[mm] − half + b.
+	bg, br []float64
+	// Lane constants of a block (thinBlock): qlane[l] the Q sum, and
+	// glane, rlane[row·maxSub + l] the G and R shares of complete lanes.
+	qlane, glane, rlane []float64
+	dlane               []float64 // [maxSub] per-lane denominator terms
+	dirty               []bool    // [row] row has per-element G or R entries
+	sink                float64   // keeps warm's loads
+	best                []float64 // per t0: largest |ρ|
+	bestID              []int     // per t0: its template id (−1: none)
+	bestNum             []float64 // per t0: its numerator
+	bestDen             []float64 // per t0: its denominator
 	// visit, if set, receives every (t0 index, template id, numerator,
 	// denominator) instead of the running maxima (tests).
 	visit func(m, id int, num, den float64)
@@ -87,11 +117,15 @@ func (s *searcher) newWorker() *worker {
 	for c := range w.proj {
 		w.proj[c] = make([]float64, s.nEpoch)
 	}
+	w.uni, w.dl, w.base, w.rl = make([]bool, n), make([]int32, n*maxSub), make([]int, blockLen), make([]float64, maxSub)
+	w.nodes, w.nodeBlk = make([]float64, len(s.cfg.Speeds)*n*4), make([]int, len(s.cfg.Speeds))
+	w.resetCrossings()
 	b := 2*s.half + 1
 	w.g, w.r = make([]float64, b), make([]float64, b)
 	w.bnum, w.bden, w.bq = make([]float64, blockLen), make([]float64, blockLen), make([]float64, blockLen)
-	w.boff = make([]int, blockLen)
 	w.bg, w.br = make([]float64, blockLen*b), make([]float64, blockLen*b)
+	w.qlane, w.glane, w.rlane = make([]float64, maxSub), make([]float64, maxSub*b), make([]float64, maxSub*b)
+	w.dlane, w.dirty = make([]float64, maxSub), make([]bool, b)
 	w.best = make([]float64, s.nT0)
 	w.bestID = make([]int, s.nT0)
 	w.bestNum = make([]float64, s.nT0)
@@ -100,6 +134,14 @@ func (s *searcher) newWorker() *worker {
 		w.bestID[i] = -1
 	}
 	return w
+}
+
+// resetCrossings forgets the kept interpolation nodes (call when the
+// projections change, i.e. for a new direction).
+func (w *worker) resetCrossings() {
+	for i := range w.nodeBlk {
+		w.nodeBlk[i] = -2
+	}
 }
 
 // better reports whether (stat a, id ia) ranks above (b, ib): larger stat,
@@ -138,43 +180,150 @@ func crossing(p []float64, k0 int, t0, invV, invStep, lastX float64) float64 {
 	return x - f/(1-dp*invV*invStep)
 }
 
+// laneEps is the margin, in intervals, by which a block's lag range must
+// clear an interval boundary for the lane form: far above the round-off of
+// the per-element evaluation and the 2⁻²² resolution of floorInt.
+const laneEps = 1e-6
+
 // blockCrossings fills the worker's crossing table for the nb grid points
-// from m0 at speed 1/invV. The crossing time x(t0) (in intervals) is solved
-// exactly (crossing) at the block's first, middle and last t0 and
-// interpolated by the quadratic through them in between: the lag n̂·r/v
-// varies smoothly, and the cubic remainder over a block of ≤ 16 min is
-// ≈ 0.01 s at 150 km/s (satellite jerk ω²·|ṙ| ≈ 8e-5 m/s³; ≤ 0.03 s
-// measured by TestBlockCrossingsAgainstInject, within the data span), against
-// ≈ 25 flops and a division per exact solve.
-func (s *searcher) blockCrossings(w *worker, m0, nb int, invV float64) {
+// from m0 (a multiple of blockLen) at speed index vi (1/v = invV). The
+// crossing time x(t0) (in intervals) is solved exactly (crossing) at nodes
+// every blockLen grid points and interpolated in between by the cubic
+// through the four nodes around the block (one before it, its first, the
+// next block's first and one after): the lag n̂·r/v varies smoothly, and
+// the quartic remainder over 16-min node spacing at 150 km/s is
+// ≈ 2 ms (ω⁴·a/v·h⁴·(9/16)/24 for a GPS orbit; TestBlockCrossingsAgainstInject
+// checks ≤ 0.05 s within the data span), against ≈ 25 flops and a division
+// per exact solve. The nodes slide from block to block, so each block costs
+// one solve per clock. Blocks whose outer nodes fall outside the data (the
+// first and the last two) use three solves inside the block instead.
+//
+// The lag in intervals, λ = x − t0/τ0, changes by less than one interval
+// over most blocks (≲ 0.8 for a satellite at 150 km/s, ≲ 0.1 for a
+// station), so the block is stored in lane form (worker.uni, worker.dl)
+// whenever the cubic's range, including its turning points, keeps every
+// lane inside one interval; otherwise, and when needCI (thick or filtered
+// kernels, tests), the interval (and phase) of every grid point is stored.
+// Both forms give the same interval for every grid point.
+func (s *searcher) blockCrossings(w *worker, m0, nb, vi int, invV float64, needCI bool) {
 	invStep := 1 / s.step
 	lastX := float64(s.nEpoch-1) - 1e-9
-	ta := s.t0(m0)
-	tb := s.t0(m0 + nb - 1)
-	tm := 0.5 * (ta + tb)
-	solve := func(p []float64, t0 float64) float64 {
+	S := s.cfg.T0Substeps
+	M := s.m0 + m0 // global grid index of the block's first point
+	for mm := range nb {
+		w.base[mm] = (M + mm) / S
+	}
+	solve := func(p []float64, j int) float64 {
+		t0 := float64(s.m0+j*blockLen) * s.dt0
 		k0 := max(0, min(int(t0*invStep+0.5), s.nEpoch-1))
 		return crossing(p, k0, t0, invV, invStep, lastX)
 	}
-	keep := w.keepX
-	scale := 0.0
-	if nb > 1 {
-		scale = 2 / float64(nb-1)
+	ns := s.nScan()
+	blk := m0 / blockLen
+	nodes := w.nodes[vi*ns*4 : (vi+1)*ns*4]
+	shift := w.nodeBlk[vi] == blk-1
+	w.nodeBlk[vi] = blk
+	if shift {
+		for c := range ns {
+			y := nodes[c*4 : c*4+4]
+			y[0], y[1], y[2], y[3] = y[1], y[2], y[3], solve(w.proj[c], blk+2)
+		}
+	} else {
+		for c := range ns {
+			y := nodes[c*4 : c*4+4]
+			for k := range y {
+				y[k] = solve(w.proj[c], blk-1+k)
+			}
+		}
 	}
-	for c := range s.nScan() {
-		p := w.proj[c]
+	keep := w.keepX
+	const scale = 1.0 / blockLen // u = mm/blockLen
+	const third, sixth = 1.0 / 3, 1.0 / 6
+	uEnd := float64(nb-1) * scale
+	dev2, dev3 := 0.25*uEnd*uEnd, 0.385*uEnd*uEnd*uEnd
+	mS, lS := float64(M)/float64(S), blockLen/float64(S)
+	nl := min(S, nb)
+	// Lane l's grid points sit rl[l] intervals after their interval's start.
+	rl := w.rl[:nl]
+	for l := range rl {
+		rl[l] = float64((M+l)%S) / float64(S)
+	}
+	// Near the ends of the data the outer nodes would rest on the
+	// linearly extended projection table: there the block uses the
+	// quadratic through three exact solves inside it (first, middle and
+	// last grid point) instead.
+	tEnd := float64(s.nEpoch-1) * s.step
+	edge := float64(s.m0+(blk-1)*blockLen)*s.dt0 < 0 || float64(s.m0+(blk+2)*blockLen)*s.dt0 > tEnd
+	L := float64(max(nb-1, 1)) // edge nodes at mm = 0, L/2, L
+	ta := s.t0(m0)
+	edgeSolve := func(p []float64, t0 float64) float64 {
+		k0 := max(0, min(int(t0*invStep+0.5), s.nEpoch-1))
+		return crossing(p, k0, t0, invV, invStep, lastX)
+	}
+	for c := range ns {
+		var c0, c1, c2, c3 float64
+		if edge {
+			p := w.proj[c]
+			xa, xm, xb := edgeSolve(p, ta), edgeSolve(p, ta+0.5*L*s.dt0), edgeSolve(p, ta+L*s.dt0)
+			// x = xa + q1·mm + q2·mm², in u = mm/blockLen.
+			h := 0.5 * L
+			q1 := (4*xm - 3*xa - xb) / (2 * h)
+			q2 := (xa - 2*xm + xb) / (2 * h * h)
+			c0, c1, c2 = xa, q1*blockLen, q2*blockLen*blockLen
+		} else {
+			y := nodes[c*4 : c*4+4]
+			// x(u) = c0 + u·(c1 + u·(c2 + u·c3)), the cubic through the
+			// nodes at u = −1, 0, 1, 2.
+			c0 = y[1]
+			c1 = y[2] - y[0]*third - y[1]*0.5 - y[3]*sixth
+			c2 = (y[0]+y[2])*0.5 - y[1]
+			c3 = (y[3]-y[0])*sixth + (y[1]-y[2])*0.5
+		}
+		// Lag λ(u) = x(u) − (M + mm)/S = a0 + a1·u + c2·u² + c3·u³ and its
+		// range over the block, u ∈ [0, uEnd]: first a cheap bound (the
+		// chord between the ends widened by the largest departure of the
+		// u² and u³ terms from their chords, U²/4 and 2U³/(3√3) < 0.385·U³),
+		// then, if that straddles an interval boundary, the exact range
+		// from the ends and the turning points inside.
+		a0 := c0 - mS
+		a1 := c1 - lS
+		lag := func(u float64) float64 { return a0 + u*(a1+u*(c2+u*c3)) }
+		lo, hi := a0, lag(uEnd)
+		if lo > hi {
+			lo, hi = hi, lo
+		}
+		dev := math.Abs(c2)*dev2 + math.Abs(c3)*dev3
+		dl := w.dl[c*maxSub : c*maxSub+nl]
+		uni := !w.perElement && s.lanes(dl, rl, lo-dev, hi+dev)
+		if !uni && !w.perElement && dev > 0 {
+			// λ′(u) = a1 + 2c2·u + 3c3·u² = 0.
+			qa, qb := 3*c3, 2*c2
+			if qa == 0 {
+				if qb != 0 {
+					if u := -a1 / qb; u > 0 && u < uEnd {
+						lo, hi = min(lo, lag(u)), max(hi, lag(u))
+					}
+				}
+			} else if disc := qb*qb - 4*qa*a1; disc >= 0 {
+				sq, inv := math.Sqrt(disc), 0.5/qa
+				for _, u := range [2]float64{(-qb - sq) * inv, (-qb + sq) * inv} {
+					if u > 0 && u < uEnd {
+						lo, hi = min(lo, lag(u)), max(hi, lag(u))
+					}
+				}
+			}
+			uni = s.lanes(dl, rl, lo, hi)
+		}
+		w.uni[c] = uni
+		if uni && !needCI && !keep {
+			continue
+		}
 		ci := w.ci[c*blockLen : c*blockLen+nb]
 		ph := w.ph[c*blockLen : c*blockLen+nb]
-		xa, xm, xb := solve(p, ta), solve(p, tm), solve(p, tb)
-		// x(u) = xm + u·c1 + u²·c2 for u = 2·mm/(nb−1) − 1 ∈ [−1, 1].
-		c1, c2 := 0.5*(xb-xa), 0.5*(xa+xb)-xm
 		xs := w.x[c*blockLen : c*blockLen+nb] // kept for tests only (w.keepX)
 		for mm := range ci {
-			u := float64(mm)*scale - 1
-			x := xm + u*(c1+u*c2)
-			if nb == 1 {
-				x = xa
-			}
+			u := float64(mm) * scale
+			x := c0 + u*(c1+u*(c2+u*c3))
 			if keep {
 				xs[mm] = x
 			}
@@ -185,6 +334,21 @@ func (s *searcher) blockCrossings(w *worker, m0, nb int, invV float64) {
 			}
 		}
 	}
+}
+
+// lanes reports whether, for a lag range [lo, hi] (intervals), every lane
+// l (grid points rl[l] intervals into their interval) stays inside one
+// interval with a lag inside the buffer, and if so stores each lane's lag
+// ⌊rl[l] + λ⌋ in dl.
+func (s *searcher) lanes(dl []int32, rl []float64, lo, hi float64) bool {
+	for l, r := range rl {
+		f1, f2 := floorInt(r+lo-laneEps), floorInt(r+hi+laneEps)
+		if f1 != f2 || uint(f1+s.half) > uint(2*s.half) {
+			return false
+		}
+		dl[l] = int32(f1)
+	}
+	return true
 }
 
 // floorBias makes floorInt one truncating conversion: x + floorBias > 0
@@ -201,25 +365,26 @@ func (s *searcher) t0(m int) float64 { return float64(s.m0+m) * s.dt0 }
 // scanDirection evaluates every template of direction d at every t0.
 func (s *searcher) scanDirection(w *worker, d int) {
 	n := s.dirs[d]
-	ns := s.nScan()
-	for c := range ns {
+	for c := range s.nScan() {
 		p, pos := w.proj[c], s.pos[c]
 		for k := range p {
 			r := &pos[k]
 			p[k] = n[0]*r[0] + n[1]*r[1] + n[2]*r[2]
 		}
 	}
+	w.resetCrossings()
 	invStep := 1 / s.step
 	// Blocks of t0 outside, speeds inside: the block's stretch of the
 	// projections and of the whitened data stays in cache for every speed.
 	for m0 := 0; m0 < s.nT0; m0 += blockLen {
 		nb := min(blockLen, s.nT0-m0)
+		s.warm(w, m0, nb)
 		for vi, v := range s.cfg.Speeds {
 			invV := 1 / v
 			// Interval offsets (crossing interval − t0 interval) this speed can
 			// reach: |lag| ≤ R/v, plus the kernel extent.
 			reach := int(math.Ceil(s.radius*invV*invStep)) + 2
-			s.blockCrossings(w, m0, nb, invV)
+			s.blockCrossings(w, m0, nb, vi, invV, !s.thinOnly[vi])
 			for th := range s.cfg.Thicknesses {
 				kt := &s.kern[vi][th]
 				// Buffer entries this template can touch.
@@ -227,8 +392,8 @@ func (s *searcher) scanDirection(w *worker, d int) {
 				bhi := min(2*s.half, s.half+reach+kt.lo+kt.n)
 				for cl := range s.cfg.Couplings {
 					id := s.templateID(d, vi, th, cl)
-					if kt.n == 1 && kt.lo == 0 {
-						s.thinBlock(w, &s.prep.data, cl, m0, nb, blo, bhi)
+					if kt.thin() {
+						s.thinBlock(w, &s.prep.data, cl, nb)
 					} else {
 						for mm := range nb {
 							base := floorInt(s.t0(m0+mm) * invStep)
@@ -259,25 +424,108 @@ func (s *searcher) scanDirection(w *worker, d int) {
 	}
 }
 
-// thinBlock evaluates the thin-wall template of coupling cl at the nb grid
-// points of the block from m0 (crossings in the worker's table), leaving
-// numerators and denominators in w.bnum, w.bden. The loop runs clock by
-// clock over the block, so each clock's data are read in order and the
-// block's t0 accumulate independently (no loop-carried dependency).
-func (s *searcher) thinBlock(w *worker, ser *series, cl, m0, nb, blo, bhi int) {
-	nInt := s.nInt
-	invStep := 1 / s.step
-	B := 2*s.half + 1
-	kg := s.kg[cl]
-	num, qt, off := w.bnum[:nb], w.bq[:nb], w.boff[:nb]
-	G, R := w.bg[:nb*B], w.br[:nb*B]
-	for mm := range nb {
-		num[mm], qt[mm] = 0, 0
-		off[mm] = s.half - floorInt(s.t0(m0+mm)*invStep)
+// warm touches one value per cache line of the stretch of every clock's
+// projections and whitened data that the block from m0 can reach, before
+// the crossing solves need them. The loads are independent, so the
+// memory system serves them in parallel; the solves' own loads are
+// chained through the first guess and would each wait for memory (the
+// per-clock arrays, ~70 streams, are too many for the hardware
+// prefetchers).
+func (s *searcher) warm(w *worker, m0, nb int) {
+	S := s.cfg.T0Substeps
+	lo := max(0, (s.m0+m0)/S-s.half)
+	hi := min(s.nEpoch, (s.m0+m0+nb-1)/S+s.half+2)
+	var acc float64
+	for c := range s.nScan() {
+		p := w.proj[c][lo:hi]
+		for k := 0; k < len(p); k += 8 {
+			acc += p[k]
+		}
 	}
-	for c, zc := range ser.zc {
+	ser := &s.prep.data
+	dhi := max(lo, min(hi, s.nInt))
+	for c := range ser.nd {
+		z, mw, miss := ser.zz[c][lo:dhi], ser.mw[c][lo:dhi], ser.miss[c][lo:dhi]
+		for k := 0; k < len(z); k += 8 {
+			acc += z[k] + mw[k] + float64(miss[k])
+		}
+	}
+	w.sink += acc
+}
+
+// thinBlock evaluates the thin-wall template of coupling cl at the nb grid
+// points of the block (crossings in the worker's table, see
+// blockCrossings), leaving numerators and denominators in w.bnum, w.bden.
+// The loop runs clock by clock over the block, so each clock's data are
+// read in order and the block's t0 accumulate independently (no
+// loop-carried dependency).
+//
+// For a clock in lane form the crossing interval steps by one along each
+// lane and its buffer entry (row = lag in intervals + half) is fixed. When
+// the lane's intervals are all inside the data and present, its weight is
+// the clock's constant m = 1/σ², so its Q sum and its share of row G are
+// one number per lane (w.qlane, w.glane) and only the numerator is summed
+// per grid point: one multiply-add per clock and t0. Other lanes and
+// per-element clocks add Q and G per grid point.
+func (s *searcher) thinBlock(w *worker, ser *series, cl, nb int) {
+	nInt := s.nInt
+	B := 2*s.half + 1
+	S := s.cfg.T0Substeps
+	kg := s.kg[cl]
+	num, qt := w.bnum[:nb], w.bq[:nb]
+	base := w.base[:nb]
+	G, R := w.bg, w.br
+	clear(num)
+	clear(qt)
+	nl := min(S, nb)
+	qlane := w.qlane[:nl]
+	clear(qlane)
+	rowLo, rowHi := B, -1
+	dirty := w.dirty
+	for c := range ser.nd {
 		K := kg[c]
 		if K == 0 {
+			continue
+		}
+		z, mw := ser.zz[c], ser.mw[c]
+		if w.uni[c] {
+			miss, wK := ser.miss[c], K*ser.wc[c]
+			for l, d := range w.dl[c*maxSub : c*maxSub+nl] {
+				row := int(d) + s.half // inside the buffer (blockCrossings)
+				rowLo, rowHi = min(rowLo, row), max(rowHi, row)
+				// Lane l: mm = l + k·S, interval i = base[l] + d + k, k < n.
+				i := base[l] + int(d)
+				mm := l
+				n := (nb - l + S - 1) / S
+				if i >= 0 && i+n <= nInt && miss[i+n] == miss[i] {
+					// Complete lane: constant weight.
+					qlane[l] += wK * K
+					w.glane[row*maxSub+l] += wK
+					if S == 1 {
+						zs, nums := z[i:i+n], num[:n]
+						for k, v := range zs {
+							nums[k] += K * v
+						}
+						continue
+					}
+					for ; mm < nb; mm, i = mm+S, i+1 {
+						num[mm] += K * z[i]
+					}
+					continue
+				}
+				dirty[row] = true
+				g := G[row*blockLen : row*blockLen+nb]
+				if i < 0 { // skip to the first interval inside the data
+					mm += -i * S
+					i = 0
+				}
+				for ; mm < nb && i < nInt; mm, i = mm+S, i+1 {
+					num[mm] += K * z[i]
+					mk := K * mw[i]
+					qt[mm] += mk * K
+					g[mm] += mk
+				}
+			}
 			continue
 		}
 		ci := w.ci[c*blockLen : c*blockLen+nb]
@@ -286,48 +534,110 @@ func (s *searcher) thinBlock(w *worker, ser *series, cl, m0, nb, blo, bhi int) {
 			if uint(i) >= uint(nInt) {
 				continue
 			}
-			x := zc[i]
-			num[mm] += K * x.z
-			mk := x.m * K
+			num[mm] += K * z[i]
+			mk := K * mw[i]
 			qt[mm] += mk * K
-			if b := i + off[mm]; mk != 0 && uint(b) < uint(B) {
-				G[mm*B+b] += mk
+			if row := i - base[mm] + s.half; uint(row) < uint(B) {
+				rowLo, rowHi = min(rowLo, row), max(rowHi, row)
+				dirty[row] = true
+				G[row*blockLen+mm] += mk
 			}
 		}
 	}
 	if s.hasRef {
 		c := s.nData
 		if K := kg[c]; K != 0 {
-			ci := w.ci[c*blockLen : c*blockLen+nb]
-			for mm, i32 := range ci {
-				i := int(i32)
-				if b := i + off[mm]; uint(i) < uint(nInt) && uint(b) < uint(B) {
-					num[mm] += K * ser.zr[i]
-					R[mm*B+b] += K
+			if w.uni[c] {
+				for l, d := range w.dl[c*maxSub : c*maxSub+nl] {
+					row := int(d) + s.half
+					rowLo, rowHi = min(rowLo, row), max(rowHi, row)
+					i := base[l] + int(d)
+					mm := l
+					n := (nb - l + S - 1) / S
+					if i >= 0 && i+n <= nInt {
+						w.rlane[row*maxSub+l] += K
+						for ; mm < nb; mm, i = mm+S, i+1 {
+							num[mm] += K * ser.zr[i]
+						}
+						continue
+					}
+					dirty[row] = true
+					r := R[row*blockLen : row*blockLen+nb]
+					if i < 0 {
+						mm += -i * S
+						i = 0
+					}
+					for ; mm < nb && i < nInt; mm, i = mm+S, i+1 {
+						num[mm] += K * ser.zr[i]
+						r[mm] += K
+					}
+				}
+			} else {
+				ci := w.ci[c*blockLen : c*blockLen+nb]
+				for mm, i32 := range ci {
+					i := int(i32)
+					if row := i - base[mm] + s.half; uint(i) < uint(nInt) && uint(row) < uint(B) {
+						rowLo, rowHi = min(rowLo, row), max(rowHi, row)
+						dirty[row] = true
+						num[mm] += K * ser.zr[i]
+						R[row*blockLen+mm] += K
+					}
 				}
 			}
 		}
 	}
+	// Per interval e = base − half + row, with u_j = g_j − g_r over the
+	// present clocks (Sherman–Morrison): Σ_j m_j u_j² − γ(Σ_j m_j u_j)² =
+	// Q − 2RG + R²W − γ(G − RW)², the Q terms summing to qt. G and R are
+	// the per-element rows plus the lane constants; untouched entries are
+	// zero and add nothing. A row with lane constants only, over intervals
+	// of one W and γ, adds one number per lane (dlane).
+	den := w.bden[:nb]
+	for mm := range den {
+		den[mm] = qt[mm] + qlane[mm%S]
+	}
+	dlane := w.dlane[:nl]
+	clear(dlane)
 	pr := s.prep
-	for mm := range nb {
-		base := s.half - off[mm]
-		g, r := G[mm*B:(mm+1)*B], R[mm*B:(mm+1)*B]
-		den := qt[mm]
-		for b := blo; b <= bhi; b++ {
-			gb, rb := g[b], r[b]
-			if gb == 0 && rb == 0 {
-				continue
+	for row := rowLo; row <= rowHi; row++ {
+		g, r := G[row*blockLen:row*blockLen+nb], R[row*blockLen:row*blockLen+nb]
+		gl, rl := w.glane[row*maxSub:row*maxSub+nl], w.rlane[row*maxSub:row*maxSub+nl]
+		dr := dirty[row]
+		dirty[row] = false
+		for l := range gl {
+			gc, rc := gl[l], rl[l]
+			gl[l], rl[l] = 0, 0
+			if !dr {
+				if gc == 0 && rc == 0 {
+					continue
+				}
+				last := l + (nb-1-l)/S*S
+				e0, e1 := base[l]-s.half+row, base[last]-s.half+row
+				if e0 >= 0 && e1 < nInt && pr.wrun[e0] == pr.wrun[e1] {
+					W := pr.w[e0]
+					u := gc - rc*W
+					dlane[l] += rc*rc*W - 2*rc*gc - pr.gamma[e0]*u*u
+					continue
+				}
 			}
-			g[b], r[b] = 0, 0
-			e := base - s.half + b
-			if e < 0 || e >= nInt {
-				continue
+			for mm := l; mm < nb; mm += S {
+				gb, rb := g[mm]+gc, r[mm]+rc
+				if gb == 0 && rb == 0 {
+					continue
+				}
+				g[mm], r[mm] = 0, 0
+				e := base[mm] - s.half + row
+				if uint(e) >= uint(nInt) {
+					continue
+				}
+				W := pr.w[e]
+				u := gb - rb*W
+				den[mm] += rb*rb*W - 2*rb*gb - pr.gamma[e]*u*u
 			}
-			W := pr.w[e]
-			u := gb - rb*W
-			den += rb*rb*W - 2*rb*gb - pr.gamma[e]*u*u
 		}
-		w.bden[mm] = den
+	}
+	for mm := range den {
+		den[mm] += dlane[mm%S]
 	}
 }
 
@@ -389,7 +699,7 @@ func (s *searcher) accumulate(w *worker, ser *series, kt *kernelTable, cl, mm, b
 	nInt := s.nInt
 	off := s.half - base
 	g := w.g
-	if kt.n == 1 && kt.lo == 0 {
+	if kt.thin() {
 		// Thin wall without AR filter: one interval per clock, value
 		// K/τ0 (s.kg).
 		kg := s.kg[cl]

@@ -124,11 +124,14 @@ func newSearcher(net *Network, cfg Config) (*searcher, error) {
 	}
 	ext := 0
 	s.kern = make([][]kernelTable, len(c.Speeds))
+	s.thinOnly = make([]bool, len(c.Speeds))
 	for vi, v := range c.Speeds {
+		s.thinOnly[vi] = true
 		s.kern[vi] = make([]kernelTable, len(c.Thicknesses))
 		for th, d := range c.Thicknesses {
 			kt := newKernel(c.Profile, d, v, net.Step, prep.noise.AR)
 			s.kern[vi][th] = kt
+			s.thinOnly[vi] = s.thinOnly[vi] && kt.thin()
 			s.phased = s.phased || kt.phase > 1
 			ext = max(ext, -kt.lo, kt.lo+kt.n)
 		}

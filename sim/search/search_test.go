@@ -76,9 +76,10 @@ func TestBlockCrossingsAgainstInject(t *testing.T) {
 				w.proj[c][k] = n[0]*r[0] + n[1]*r[1] + n[2]*r[2]
 			}
 		}
+		w.resetCrossings()
 		for m0 := 0; m0 < s.nT0; m0 += blockLen {
 			nb := min(blockLen, s.nT0-m0)
-			s.blockCrossings(w, m0, nb, 1/150e3)
+			s.blockCrossings(w, m0, nb, 0, 1/150e3, true)
 			for _, mm := range []int{1, nb / 4, nb / 2, nb - 2} {
 				if mm < 0 || mm >= nb {
 					continue
