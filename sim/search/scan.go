@@ -22,12 +22,35 @@ type searcher struct {
 	// thinOnly[speed]: every thickness class is the bare thin spike, so
 	// the per-grid-point crossing table is needed only off the lane form.
 	thinOnly []bool
-	dirs     [][3]float64
-	m0       int     // first t0 grid point: t0 = (m0 + m)·dt0
-	nT0      int     // t0 grid points
-	dt0      float64 // t0 grid step, s
-	half     int     // half width H of the per-t0 interval buffer
-	radius   float64 // largest clock distance from the geocentre, m
+	// full[blk·data clocks + c]: data clock c is present (prep.data) over
+	// every interval t0 block blk can reach, [base − half, base′ + half].
+	full   []bool
+	dirs   [][3]float64
+	m0     int     // first t0 grid point: t0 = (m0 + m)·dt0
+	nT0    int     // t0 grid points
+	dt0    float64 // t0 grid step, s
+	half   int     // half width H of the per-t0 interval buffer
+	radius float64 // largest clock distance from the geocentre, m
+}
+
+// completeBlocks fills s.full.
+func (s *searcher) completeBlocks() {
+	ser := &s.prep.data
+	S := s.cfg.T0Substeps
+	nblk := (s.nT0 + blockLen - 1) / blockLen
+	s.full = make([]bool, nblk*ser.nd)
+	for b := range nblk {
+		m0 := b * blockLen
+		nb := min(blockLen, s.nT0-m0)
+		lo := (s.m0+m0)/S - s.half
+		hi := (s.m0+m0+nb-1)/S + s.half + 1 // exclusive
+		if lo < 0 || hi > s.nInt {
+			continue
+		}
+		for c := range ser.nd {
+			s.full[b*ser.nd+c] = ser.miss[c][hi] == ser.miss[c][lo]
+		}
+	}
 }
 
 // nScan returns the number of scan clocks (data clocks plus the reference).
@@ -102,6 +125,7 @@ type worker struct {
 	dlane               []float64 // [maxSub] per-lane denominator terms
 	dirty               []bool    // [row] row has per-element G or R entries
 	sink                float64   // keeps warm's loads
+	blk                 int       // index of the block being scanned (m0/blockLen)
 	best                []float64 // per t0: largest |ρ|
 	bestID              []int     // per t0: its template id (−1: none)
 	bestNum             []float64 // per t0: its numerator
@@ -351,6 +375,45 @@ func (s *searcher) lanes(dl []int32, rl []float64, lo, hi float64) bool {
 	return true
 }
 
+// thinElements adds one data clock's thin-wall terms (sensitivity K/τ0,
+// data z and weights mw, crossing intervals ci) at the block's grid points
+// [a, b), one at a time, and returns the widened range of touched rows.
+func (s *searcher) thinElements(w *worker, z, mw []float64, ci []int32, K float64, a, b, rowLo, rowHi int) (int, int) {
+	nInt, B := s.nInt, 2*s.half+1
+	num, qt, base, G := w.bnum, w.bq, w.base, w.bg
+	for mm := a; mm < b; mm++ {
+		i := int(ci[mm])
+		if uint(i) >= uint(nInt) {
+			continue
+		}
+		num[mm] += K * z[i]
+		mk := K * mw[i]
+		qt[mm] += mk * K
+		if row := i - base[mm] + s.half; uint(row) < uint(B) {
+			rowLo, rowHi = min(rowLo, row), max(rowHi, row)
+			w.dirty[row] = true
+			G[row*blockLen+mm] += mk
+		}
+	}
+	return rowLo, rowHi
+}
+
+// axpy adds a·x to y (len(x) ≥ len(y)), four at a time.
+func axpy(y, x []float64, a float64) {
+	x = x[:len(y)]
+	k := 0
+	for ; k+4 <= len(y); k += 4 {
+		yy, xx := y[k:k+4:k+4], x[k:k+4:k+4]
+		yy[0] += a * xx[0]
+		yy[1] += a * xx[1]
+		yy[2] += a * xx[2]
+		yy[3] += a * xx[3]
+	}
+	for ; k < len(y); k++ {
+		y[k] += a * x[k]
+	}
+}
+
 // floorBias makes floorInt one truncating conversion: x + floorBias > 0
 // for every crossing of a valid network (|lag| ≤ R/v < 1e6 s), and its
 // resolution, 2⁻²² intervals (7 µs at 30 s), is far below the solver's.
@@ -378,6 +441,7 @@ func (s *searcher) scanDirection(w *worker, d int) {
 	// projections and of the whitened data stays in cache for every speed.
 	for m0 := 0; m0 < s.nT0; m0 += blockLen {
 		nb := min(blockLen, s.nT0-m0)
+		w.blk = m0 / blockLen
 		s.warm(w, m0, nb)
 		for vi, v := range s.cfg.Speeds {
 			invV := 1 / v
@@ -393,7 +457,7 @@ func (s *searcher) scanDirection(w *worker, d int) {
 				for cl := range s.cfg.Couplings {
 					id := s.templateID(d, vi, th, cl)
 					if kt.thin() {
-						s.thinBlock(w, &s.prep.data, cl, nb)
+						s.thinBlock(w, cl, nb)
 					} else {
 						for mm := range nb {
 							base := floorInt(s.t0(m0+mm) * invStep)
@@ -425,8 +489,8 @@ func (s *searcher) scanDirection(w *worker, d int) {
 }
 
 // warm touches one value per cache line of the stretch of every clock's
-// projections and whitened data that the block from m0 can reach, before
-// the crossing solves need them. The loads are independent, so the
+// whitened data that the block from m0 can reach, and of the projections
+// its crossing solves read, before they are needed. The loads are independent, so the
 // memory system serves them in parallel; the solves' own loads are
 // chained through the first guess and would each wait for memory (the
 // per-clock arrays, ~70 streams, are too many for the hardware
@@ -436,24 +500,36 @@ func (s *searcher) warm(w *worker, m0, nb int) {
 	lo := max(0, (s.m0+m0)/S-s.half)
 	hi := min(s.nEpoch, (s.m0+m0+nb-1)/S+s.half+2)
 	var acc float64
+	// The block's new crossing node is two blocks ahead (blockCrossings);
+	// its solves read the projections within the largest lag of it.
+	k0 := (s.m0 + m0 + 2*blockLen) / S
+	plo, phi := min(s.nEpoch, max(0, k0-s.half)), min(s.nEpoch, k0+s.half+2)
 	for c := range s.nScan() {
-		p := w.proj[c][lo:hi]
+		p := w.proj[c][plo:phi]
 		for k := 0; k < len(p); k += 8 {
 			acc += p[k]
 		}
 	}
 	ser := &s.prep.data
 	dhi := max(lo, min(hi, s.nInt))
+	full := s.full[w.blk*ser.nd : (w.blk+1)*ser.nd]
 	for c := range ser.nd {
-		z, mw, miss := ser.zz[c][lo:dhi], ser.mw[c][lo:dhi], ser.miss[c][lo:dhi]
+		z := ser.zz[c][lo:dhi]
 		for k := 0; k < len(z); k += 8 {
-			acc += z[k] + mw[k] + float64(miss[k])
+			acc += z[k]
+		}
+		if !full[c] { // the weights and gap counts are read too
+			mw, miss := ser.mw[c][lo:dhi], ser.miss[c][lo:dhi]
+			for k := 0; k < len(mw); k += 8 {
+				acc += mw[k] + float64(miss[k])
+			}
 		}
 	}
 	w.sink += acc
 }
 
-// thinBlock evaluates the thin-wall template of coupling cl at the nb grid
+// thinBlock evaluates the thin-wall template of coupling cl on the data
+// series (prep.data) at the nb grid
 // points of the block (crossings in the worker's table, see
 // blockCrossings), leaving numerators and denominators in w.bnum, w.bden.
 // The loop runs clock by clock over the block, so each clock's data are
@@ -467,7 +543,8 @@ func (s *searcher) warm(w *worker, m0, nb int) {
 // one number per lane (w.qlane, w.glane) and only the numerator is summed
 // per grid point: one multiply-add per clock and t0. Other lanes and
 // per-element clocks add Q and G per grid point.
-func (s *searcher) thinBlock(w *worker, ser *series, cl, nb int) {
+func (s *searcher) thinBlock(w *worker, cl, nb int) {
+	ser := &s.prep.data
 	nInt := s.nInt
 	B := 2*s.half + 1
 	S := s.cfg.T0Substeps
@@ -482,6 +559,8 @@ func (s *searcher) thinBlock(w *worker, ser *series, cl, nb int) {
 	clear(qlane)
 	rowLo, rowHi := B, -1
 	dirty := w.dirty
+	// full[c]: clock c is present over every interval the block can reach.
+	full := s.full[w.blk*ser.nd : (w.blk+1)*ser.nd]
 	for c := range ser.nd {
 		K := kg[c]
 		if K == 0 {
@@ -490,6 +569,7 @@ func (s *searcher) thinBlock(w *worker, ser *series, cl, nb int) {
 		z, mw := ser.zz[c], ser.mw[c]
 		if w.uni[c] {
 			miss, wK := ser.miss[c], K*ser.wc[c]
+			full := full[c]
 			for l, d := range w.dl[c*maxSub : c*maxSub+nl] {
 				row := int(d) + s.half // inside the buffer (blockCrossings)
 				rowLo, rowHi = min(rowLo, row), max(rowHi, row)
@@ -497,15 +577,12 @@ func (s *searcher) thinBlock(w *worker, ser *series, cl, nb int) {
 				i := base[l] + int(d)
 				mm := l
 				n := (nb - l + S - 1) / S
-				if i >= 0 && i+n <= nInt && miss[i+n] == miss[i] {
+				if full || i >= 0 && i+n <= nInt && miss[i+n] == miss[i] {
 					// Complete lane: constant weight.
 					qlane[l] += wK * K
 					w.glane[row*maxSub+l] += wK
 					if S == 1 {
-						zs, nums := z[i:i+n], num[:n]
-						for k, v := range zs {
-							nums[k] += K * v
-						}
+						axpy(num[:n], z[i:i+n], K)
 						continue
 					}
 					for ; mm < nb; mm, i = mm+S, i+1 {
@@ -529,20 +606,45 @@ func (s *searcher) thinBlock(w *worker, ser *series, cl, nb int) {
 			continue
 		}
 		ci := w.ci[c*blockLen : c*blockLen+nb]
-		for mm, i32 := range ci {
-			i := int(i32)
-			if uint(i) >= uint(nInt) {
-				continue
+		if S == 1 {
+			// Runs of one lag: contiguous sums, constant weight where the
+			// run's intervals are all present.
+			miss, wK := ser.miss[c], K*ser.wc[c]
+			for a := 0; a < nb; {
+				i0 := int(ci[a])
+				d := i0 - base[a]
+				b := a + 1
+				for b < nb && int(ci[b])-base[b] == d {
+					b++
+				}
+				n, row := b-a, d+s.half
+				if i0 >= 0 && i0+n <= nInt && uint(row) < uint(B) {
+					rowLo, rowHi = min(rowLo, row), max(rowHi, row)
+					dirty[row] = true
+					axpy(num[a:b], z[i0:i0+n], K)
+					g := G[row*blockLen+a : row*blockLen+b]
+					if miss[i0+n] == miss[i0] {
+						q := wK * K
+						for k := range g {
+							qt[a+k] += q
+							g[k] += wK
+						}
+					} else {
+						for k, m := range mw[i0 : i0+n] {
+							mk := K * m
+							qt[a+k] += mk * K
+							g[k] += mk
+						}
+					}
+					a = b
+					continue
+				}
+				rowLo, rowHi = s.thinElements(w, z, mw, ci, K, a, b, rowLo, rowHi)
+				a = b
 			}
-			num[mm] += K * z[i]
-			mk := K * mw[i]
-			qt[mm] += mk * K
-			if row := i - base[mm] + s.half; uint(row) < uint(B) {
-				rowLo, rowHi = min(rowLo, row), max(rowHi, row)
-				dirty[row] = true
-				G[row*blockLen+mm] += mk
-			}
+			continue
 		}
+		rowLo, rowHi = s.thinElements(w, z, mw, ci, K, 0, nb, rowLo, rowHi)
 	}
 	if s.hasRef {
 		c := s.nData

@@ -147,6 +147,7 @@ func newSearcher(net *Network, cfg Config) (*searcher, error) {
 		}
 		s.m0, s.nT0 = a, b-a
 	}
+	s.completeBlocks()
 	return s, nil
 }
 
