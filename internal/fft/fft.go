@@ -2,14 +2,19 @@
 // package noise: the forward transform takes natural order and leaves the
 // spectrum in bit-reversed order, the inverse takes bit-reversed order and
 // returns natural order, so a convolution never permutes. Both are radix-4
-// (one radix-2 stage when log2 n is odd) and recursive: each top-level
-// stage splits the array into four independent quarters, so once a quarter
-// fits in cache all its remaining stages run there (a cache-oblivious
-// depth-first order). Stages of sizes up to leafMax use precomputed
-// twiddle tables; larger stages build their twiddles from a 256-entry table
-// and one Sincos per 256 butterflies. Pruned variants skip the zero second
-// half of the input (ForwardHalfZero) and the unwanted second half of the
-// output (InverseFirstHalf), the shapes of a zero-padded linear convolution.
+// (one radix-2 stage when log2 n is odd). Stages larger than leafMax run
+// level by level over the whole array, their twiddles built per chunk of
+// 256 butterflies (one Sincos and one product each) and shared by all
+// blocks of the level; then every leafMax block runs its remaining stages
+// in cache with precomputed twiddle tables. Pruned variants skip the zero
+// second half of the input (ForwardHalfZero) and the unwanted second half
+// of the output (InverseFirstHalf), the shapes of a zero-padded linear
+// convolution.
+//
+// On amd64 CPUs with AVX the butterflies run two at a time in 256-bit
+// registers (kernel_amd64.s). They do the same operations in the same
+// order as the Go loops, with no fused multiply-add, so every CPU gives the
+// same bits (TestVectorKernelsSameBits).
 //
 // Transforms are unnormalised: Forward computes X_k = Σ x_j e^(−2πijk/n) and
 // Inverse x_j = Σ X_k e^(+2πijk/n), so Inverse(Forward(x)) = n·x.
@@ -39,8 +44,15 @@ type Plan struct {
 	// small[l] holds (w, w², w³) interleaved, w = e^(−2πij/s), j < s/4, for
 	// the stage of size s = 2^l ≤ leafMax.
 	small [][][3]complex128
-	// fine[l] holds e^(−2πit/s), t < chunk, for the stages s = 2^l > leafMax.
-	fine [][]complex128
+	// smallV[l] is small[l] in the layout of the vector kernels (putTw),
+	// for s ≥ 8, when useAVX.
+	smallV [][]float64
+	// fine[l][r−1] holds e^(−2πirt/s), t < chunk, r = 1, 2, 3, for the
+	// stages s = 2^l > leafMax.
+	fine [][3][]complex128
+	// avx selects the 256-bit vector butterflies (kernel_amd64.s), which
+	// give the same bits as the Go loops.
+	avx bool
 	// brev holds e^(−iπ·rev_8(t)/256), t < 256, for the pointwise step of
 	// the real convolution (see MultiplyPacked).
 	brev [chunk]complex128
@@ -57,9 +69,17 @@ func NewPlan(n int) *Plan {
 	if p, ok := plans.Load(n); ok {
 		return p.(*Plan)
 	}
-	p := &Plan{n: n, logN: bits.TrailingZeros(uint(n))}
+	p := newPlan(n, useAVX)
+	q, _ := plans.LoadOrStore(n, p)
+	return q.(*Plan)
+}
+
+// newPlan builds a plan, with or without the vector kernels.
+func newPlan(n int, avx bool) *Plan {
+	p := &Plan{n: n, logN: bits.TrailingZeros(uint(n)), avx: avx}
 	p.small = make([][][3]complex128, p.logN+1)
-	p.fine = make([][]complex128, p.logN+1)
+	p.fine = make([][3][]complex128, p.logN+1)
+	p.smallV = make([][]float64, p.logN+1)
 	for l := 2; l <= p.logN; l++ {
 		s := 1 << l
 		if s <= leafMax {
@@ -71,24 +91,49 @@ func NewPlan(n int) *Plan {
 				}
 			}
 			p.small[l] = t
-		} else {
-			t := make([]complex128, chunk)
-			for j := range t {
-				t[j] = expi(-2 * math.Pi * float64(j) / float64(s))
+			if avx && q >= 2 {
+				v := make([]float64, 12*q)
+				for j := range q {
+					putTw(v, j, t[j][0], t[j][1], t[j][2])
+				}
+				p.smallV[l] = v
 			}
-			p.fine[l] = t
+		} else {
+			for r := 1; r <= 3; r++ {
+				t := make([]complex128, chunk)
+				for j := range t {
+					t[j] = expi(-2 * math.Pi * float64(r*j) / float64(s))
+				}
+				p.fine[l][r-1] = t
+			}
 		}
 	}
 	for t := range chunk {
 		r := bits.Reverse8(uint8(t))
 		p.brev[t] = expi(-math.Pi * float64(r) / chunk)
 	}
-	q, _ := plans.LoadOrStore(n, p)
-	return q.(*Plan)
+	return p
 }
 
 // Len returns the transform length.
 func (p *Plan) Len() int { return p.n }
+
+// useAVX is whether NewPlan's plans use the vector kernels.
+var useAVX = hasAVX()
+
+// putTw stores the twiddles of butterfly j in the vector-kernel layout: per
+// pair (j, j+1) 24 values, [w1r(j) w1r(j) w1r(j+1) w1r(j+1)], the same for
+// w1i, w2r, w2i, w3r, w3i.
+func putTw(v []float64, j int, w1, w2, w3 complex128) {
+	b := 24*(j/2) + 2*(j%2)
+	v = v[b : b+22]
+	v[0], v[1] = real(w1), real(w1)
+	v[4], v[5] = imag(w1), imag(w1)
+	v[8], v[9] = real(w2), real(w2)
+	v[12], v[13] = imag(w2), imag(w2)
+	v[16], v[17] = real(w3), real(w3)
+	v[20], v[21] = imag(w3), imag(w3)
+}
 
 func expi(t float64) complex128 {
 	s, c := math.Sincos(t)
@@ -143,37 +188,46 @@ func (p *Plan) InverseFirstHalf(x []complex128) {
 	p.dit(x, p.n >= 4)
 }
 
-// dif is the recursive decimation-in-frequency transform.
+// dif is the decimation-in-frequency transform: the stages larger than
+// leafMax level by level over the whole array (each level's twiddles are
+// built once and applied to all its blocks), then every leafMax block on
+// its own, in cache.
 func (p *Plan) dif(x []complex128, halfZero bool) {
-	s := len(x)
-	if s <= leafMax {
+	n := len(x)
+	if n <= leafMax {
 		if halfZero {
-			clear(x[(s+1)/2:])
+			clear(x[(n+1)/2:])
 		}
 		p.difLeaf(x)
 		return
 	}
-	l := bits.TrailingZeros(uint(s))
-	difStage(x, p.fine[l], halfZero)
-	q := s / 4
-	for r := range 4 {
-		p.dif(x[r*q:(r+1)*q], false)
+	s := n
+	for ; s > leafMax; s /= 4 {
+		p.bigStage(x, s, true, halfZero && s == n)
+	}
+	for b := 0; b < n; b += s {
+		p.difLeaf(x[b : b+s])
 	}
 }
 
-// dit is the recursive decimation-in-time inverse.
+// dit is the inverse of dif: leaf blocks first, then the large levels; with
+// firstHalf the last level writes only the first half of x.
 func (p *Plan) dit(x []complex128, firstHalf bool) {
-	s := len(x)
-	if s <= leafMax {
+	n := len(x)
+	if n <= leafMax {
 		p.ditLeaf(x)
 		return
 	}
-	q := s / 4
-	for r := range 4 {
-		p.dit(x[r*q:(r+1)*q], false)
+	s := n
+	for s > leafMax {
+		s /= 4
 	}
-	l := bits.TrailingZeros(uint(s))
-	ditStage(x, p.fine[l], firstHalf)
+	for b := 0; b < n; b += s {
+		p.ditLeaf(x[b : b+s])
+	}
+	for s *= 4; s <= n; s *= 4 {
+		p.bigStage(x, s, false, firstHalf && s == n)
+	}
 }
 
 // mulNegI returns −i·z.
@@ -184,73 +238,112 @@ func mulI(z complex128) complex128 { return complex(-imag(z), real(z)) }
 
 func conj(z complex128) complex128 { return complex(real(z), -imag(z)) }
 
-// difStage is one radix-4 DIF stage over all of x (size s = len(x) > leafMax)
-// with twiddles w^j = base(j0)·fine[j−j0]. The output of residue r goes to
-// quarter rev2(r) (0, 2, 1, 3), which makes the final order bit-reversed.
-// With halfZero the second half of x is taken as zero and not read.
-func difStage(x []complex128, fine []complex128, halfZero bool) {
-	s := len(x)
+// bigStage is one radix-4 stage of size s > leafMax over every block of x,
+// forward (DIF) or inverse (DIT). Twiddles for each chunk of 256
+// butterflies are w_r = e^(∓2πir·j0/s)·e^(∓2πir·t/s), r = 1, 2, 3 (one
+// product each, from Sincos and the fine tables). Forward, the output of
+// residue r goes to quarter rev2(r) (0, 2, 1, 3), which makes the final
+// order bit-reversed, and flag means the second half of x is zero and not
+// read; inverse, flag means only the first half of x is written.
+func (p *Plan) bigStage(x []complex128, s int, forward, flag bool) {
 	q := s / 4
-	x0, x1, x2, x3 := x[:q], x[q:2*q], x[2*q:3*q], x[3*q:]
+	fine := &p.fine[bits.TrailingZeros(uint(s))]
+	f1, f2, f3 := fine[0][:chunk], fine[1][:chunk], fine[2][:chunk]
+	var w [chunk][3]complex128
+	var tv [12 * chunk]float64
+	sign := -1.0
+	if !forward {
+		sign = 1
+	}
 	for j0 := 0; j0 < q; j0 += chunk {
-		base := expi(-2 * math.Pi * float64(j0) / float64(s))
-		b0 := x0[j0 : j0+chunk]
-		b1, b2, b3, fn := x1[j0:j0+len(b0)], x2[j0:j0+len(b0)], x3[j0:j0+len(b0)], fine[:len(b0)]
-		if halfZero {
-			for t := range b0 {
-				w1 := base * fn[t]
-				w2 := w1 * w1
-				w3 := w2 * w1
-				a0, a1 := b0[t], b1[t]
-				ia1 := mulNegI(a1)
-				b0[t] = a0 + a1
-				b1[t] = (a0 - a1) * w2
-				b2[t] = (a0 + ia1) * w1
-				b3[t] = (a0 - ia1) * w3
+		a := sign * 2 * math.Pi * float64(j0) / float64(s)
+		b1, b2, b3 := expi(a), expi(2*a), expi(3*a)
+		for t := range w {
+			if forward {
+				w[t] = [3]complex128{b1 * f1[t], b2 * f2[t], b3 * f3[t]}
+			} else {
+				w[t] = [3]complex128{b1 * conj(f1[t]), b2 * conj(f2[t]), b3 * conj(f3[t])}
 			}
-			continue
 		}
-		for t := range b0 {
-			w1 := base * fn[t]
-			w2 := w1 * w1
-			w3 := w2 * w1
-			a0, a1, a2, a3 := b0[t], b1[t], b2[t], b3[t]
-			t0, t1 := a0+a2, a0-a2
-			t2, t3 := a1+a3, mulNegI(a1-a3)
-			b0[t] = t0 + t2
-			b1[t] = (t0 - t2) * w2
-			b2[t] = (t1 + t3) * w1
-			b3[t] = (t1 - t3) * w3
+		if p.avx {
+			for t := range w {
+				if forward {
+					putTw(tv[:], t, w[t][0], w[t][1], w[t][2])
+				} else {
+					// the kernel multiplies by the conjugate of what it is given
+					putTw(tv[:], t, conj(w[t][0]), conj(w[t][1]), conj(w[t][2]))
+				}
+			}
+		}
+		for b := 0; b < len(x); b += s {
+			x0 := x[b+j0 : b+j0+chunk]
+			x1 := x[b+q+j0 : b+q+j0+chunk]
+			x2 := x[b+2*q+j0 : b+2*q+j0+chunk]
+			x3 := x[b+3*q+j0 : b+3*q+j0+chunk]
+			switch {
+			case p.avx && forward && flag:
+				dif4HalfZeroAVX(&x0[0], &x1[0], &x2[0], &x3[0], &tv[0], chunk/2)
+			case p.avx && forward:
+				dif4AVX(&x0[0], &x1[0], &x2[0], &x3[0], &tv[0], chunk/2)
+			case p.avx:
+				dit4AVX(&x0[0], &x1[0], &x2[0], &x3[0], &tv[0], chunk/2, !flag)
+			case forward && flag:
+				difHalfZeroGo(x0, x1, x2, x3, &w)
+			case forward:
+				difGo(x0, x1, x2, x3, &w)
+			default:
+				ditGo(x0, x1, x2, x3, &w, !flag)
+			}
 		}
 	}
 }
 
-// ditStage is the inverse (conjugate) of difStage; with firstHalf only the
-// first two quarters of the output are written.
-func ditStage(x []complex128, fine []complex128, firstHalf bool) {
-	s := len(x)
-	q := s / 4
-	x0, x1, x2, x3 := x[:q], x[q:2*q], x[2*q:3*q], x[3*q:]
-	for j0 := 0; j0 < q; j0 += chunk {
-		base := expi(2 * math.Pi * float64(j0) / float64(s))
-		b0 := x0[j0 : j0+chunk]
-		b1, b2, b3, fn := x1[j0:j0+len(b0)], x2[j0:j0+len(b0)], x3[j0:j0+len(b0)], fine[:len(b0)]
-		for t := range b0 {
-			w1 := base * conj(fn[t])
-			w2 := w1 * w1
-			w3 := w2 * w1
-			c0 := b0[t]
-			c1 := b2[t] * w1
-			c2 := b1[t] * w2
-			c3 := b3[t] * w3
-			t0, t1 := c0+c2, c0-c2
-			t2, t3 := c1+c3, mulI(c1-c3)
-			b0[t] = t0 + t2
-			b1[t] = t1 + t3
-			if !firstHalf {
-				b2[t] = t0 - t2
-				b3[t] = t1 - t3
-			}
+// difGo is the radix-4 DIF butterfly loop of bigStage.
+func difGo(x0, x1, x2, x3 []complex128, w *[chunk][3]complex128) {
+	x0, x1, x2, x3 = x0[:chunk], x1[:chunk], x2[:chunk], x3[:chunk]
+	for t := range x0 {
+		w1, w2, w3 := w[t][0], w[t][1], w[t][2]
+		a0, a1, a2, a3 := x0[t], x1[t], x2[t], x3[t]
+		t0, t1 := a0+a2, a0-a2
+		t2, t3 := a1+a3, mulNegI(a1-a3)
+		x0[t] = t0 + t2
+		x1[t] = (t0 - t2) * w2
+		x2[t] = (t1 + t3) * w1
+		x3[t] = (t1 - t3) * w3
+	}
+}
+
+// difHalfZeroGo is difGo with a2 = a3 = 0 (not read).
+func difHalfZeroGo(x0, x1, x2, x3 []complex128, w *[chunk][3]complex128) {
+	x0, x1, x2, x3 = x0[:chunk], x1[:chunk], x2[:chunk], x3[:chunk]
+	for t := range x0 {
+		w1, w2, w3 := w[t][0], w[t][1], w[t][2]
+		a0, a1 := x0[t], x1[t]
+		ia1 := mulNegI(a1)
+		x0[t] = a0 + a1
+		x1[t] = (a0 - a1) * w2
+		x2[t] = (a0 + ia1) * w1
+		x3[t] = (a0 - ia1) * w3
+	}
+}
+
+// ditGo is the radix-4 DIT butterfly loop of bigStage (w already
+// conjugated); without full only x0 and x1 are written.
+func ditGo(x0, x1, x2, x3 []complex128, w *[chunk][3]complex128, full bool) {
+	x0, x1, x2, x3 = x0[:chunk], x1[:chunk], x2[:chunk], x3[:chunk]
+	for t := range x0 {
+		w1, w2, w3 := w[t][0], w[t][1], w[t][2]
+		c0 := x0[t]
+		c1 := x2[t] * w1
+		c2 := x1[t] * w2
+		c3 := x3[t] * w3
+		t0, t1 := c0+c2, c0-c2
+		t2, t3 := c1+c3, mulI(c1-c3)
+		x0[t] = t0 + t2
+		x1[t] = t1 + t3
+		if full {
+			x2[t] = t0 - t2
+			x3[t] = t1 - t3
 		}
 	}
 }
@@ -260,8 +353,15 @@ func (p *Plan) difLeaf(x []complex128) {
 	n := len(x)
 	s := n
 	for ; s >= 8; s /= 4 {
-		tw := p.small[bits.TrailingZeros(uint(s))]
+		l := bits.TrailingZeros(uint(s))
+		tw := p.small[l]
 		q := s / 4
+		if tv := p.smallV[l]; p.avx && tv != nil {
+			for b := 0; b < n; b += s {
+				dif4AVX(&x[b], &x[b+q], &x[b+2*q], &x[b+3*q], &tv[0], q/2)
+			}
+			continue
+		}
 		for b := 0; b < n; b += s {
 			x0, x1, x2, x3 := x[b:b+q], x[b+q:b+2*q], x[b+2*q:b+3*q], x[b+3*q:b+s]
 			x1, x2, x3 = x1[:len(x0)], x2[:len(x0)], x3[:len(x0)]
@@ -322,8 +422,15 @@ func (p *Plan) ditLeaf(x []complex128) {
 		s = 16
 	}
 	for ; s <= n; s *= 4 {
-		tw := p.small[bits.TrailingZeros(uint(s))]
+		l := bits.TrailingZeros(uint(s))
+		tw := p.small[l]
 		q := s / 4
+		if tv := p.smallV[l]; p.avx && tv != nil {
+			for b := 0; b < n; b += s {
+				dit4AVX(&x[b], &x[b+q], &x[b+2*q], &x[b+3*q], &tv[0], q/2, true)
+			}
+			continue
+		}
 		for b := 0; b < n; b += s {
 			x0, x1, x2, x3 := x[b:b+q], x[b+q:b+2*q], x[b+2*q:b+3*q], x[b+3*q:b+s]
 			x1, x2, x3 = x1[:len(x0)], x2[:len(x0)], x3[:len(x0)]

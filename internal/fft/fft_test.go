@@ -290,3 +290,68 @@ func TestNewPlanPanics(t *testing.T) {
 		}()
 	}
 }
+
+// TestVectorKernelsSameBits: the AVX butterflies (kernel_amd64.s) and the
+// Go loops give identical bits for every transform shape, at lengths with
+// only leaf stages and with large levels, so results do not depend on the
+// CPU a series is generated on.
+func TestVectorKernelsSameBits(t *testing.T) {
+	if !useAVX {
+		t.Skip("no AVX on this CPU: only the Go loops run")
+	}
+	rng := rand.New(rand.NewPCG(7, 8))
+	for _, n := range []int{8, 16, 32, 1 << 11, 1 << 12, 1 << 13, 1 << 14, 1 << 15, 1 << 17} {
+		pv, pg := newPlan(n, true), newPlan(n, false)
+		x := randomComplex(rng, n)
+		for _, c := range []struct {
+			name   string
+			fv, fg func([]complex128)
+		}{
+			{"Forward", pv.Forward, pg.Forward},
+			{"ForwardHalfZero", pv.ForwardHalfZero, pg.ForwardHalfZero},
+			{"Inverse", pv.Inverse, pg.Inverse},
+			{"InverseFirstHalf", pv.InverseFirstHalf, pg.InverseFirstHalf},
+		} {
+			a, b := append([]complex128(nil), x...), append([]complex128(nil), x...)
+			c.fv(a)
+			c.fg(b)
+			m := n
+			if c.name == "InverseFirstHalf" {
+				m = n / 2
+			}
+			for k := range m {
+				if math.Float64bits(real(a[k])) != math.Float64bits(real(b[k])) ||
+					math.Float64bits(imag(a[k])) != math.Float64bits(imag(b[k])) {
+					t.Fatalf("n=%d %s: element %d: vector %v, Go %v", n, c.name, k, a[k], b[k])
+				}
+			}
+		}
+	}
+}
+
+// TestGoLoopsAgainstNaive runs the Go loops (the path of CPUs without AVX)
+// against the naive DFT at lengths with large levels.
+func TestGoLoopsAgainstNaive(t *testing.T) {
+	rng := rand.New(rand.NewPCG(9, 10))
+	for _, n := range []int{1 << 12, 1 << 13} {
+		p := newPlan(n, false)
+		x := randomComplex(rng, n)
+		want := naiveDFT(x, -1)
+		got := append([]complex128(nil), x...)
+		p.Forward(got)
+		nat := make([]complex128, n)
+		for k := range got {
+			nat[rev(k, n)] = got[k]
+		}
+		if e := maxRelErr(nat, want); e > 2e-15*float64(bits.Len(uint(n))) {
+			t.Errorf("n=%d: Go forward error %.3g", n, e)
+		}
+		p.Inverse(got)
+		for k := range got {
+			got[k] /= complex(float64(n), 0)
+		}
+		if e := maxRelErr(got, x); e > 2e-15*float64(bits.Len(uint(n))) {
+			t.Errorf("n=%d: Go round trip error %.3g", n, e)
+		}
+	}
+}

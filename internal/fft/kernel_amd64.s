@@ -1,0 +1,170 @@
+#include "textflag.h"
+
+// Radix-4 butterflies on two complex128 values per 256-bit register, with
+// the same operations in the same order as the Go loops of fft.go (complex
+// products as two products and one add/subtract per component, no fused
+// multiply-add), so both paths give identical bits.
+//
+// Twiddle layout per pair of butterflies (j, j+1), 24 float64 at tw:
+// w1r w1r' w1r w1r' ... precisely [w1r(j) w1r(j) w1r(j+1) w1r(j+1)],
+// [w1i(j) w1i(j) w1i(j+1) w1i(j+1)], then the same for w2 and w3.
+
+DATA negOdd<>+0(SB)/8, $0x0000000000000000
+DATA negOdd<>+8(SB)/8, $0x8000000000000000
+DATA negOdd<>+16(SB)/8, $0x0000000000000000
+DATA negOdd<>+24(SB)/8, $0x8000000000000000
+GLOBL negOdd<>(SB), RODATA|NOPTR, $32
+
+DATA negEven<>+0(SB)/8, $0x8000000000000000
+DATA negEven<>+8(SB)/8, $0x0000000000000000
+DATA negEven<>+16(SB)/8, $0x8000000000000000
+DATA negEven<>+24(SB)/8, $0x0000000000000000
+GLOBL negEven<>(SB), RODATA|NOPTR, $32
+
+DATA negAll<>+0(SB)/8, $0x8000000000000000
+DATA negAll<>+8(SB)/8, $0x8000000000000000
+DATA negAll<>+16(SB)/8, $0x8000000000000000
+DATA negAll<>+24(SB)/8, $0x8000000000000000
+GLOBL negAll<>(SB), RODATA|NOPTR, $32
+
+// MULW multiplies Y by the twiddle at off(SI) (re dup) and off+32(SI)
+// (im dup) into D, using T as scratch: D = Y⊙Wr ∓ swap(Y)⊙Wi.
+#define MULW(Y, off, D, T) \
+	VMULPD off(SI), Y, D \
+	VPERMILPD $5, Y, T \
+	VMULPD off+32(SI), T, T \
+	VADDSUBPD T, D, D
+
+// MULWC multiplies Y by the conjugate twiddle: D = Y⊙Wr ± swap(Y)⊙Wi,
+// as Y⊙Wr ∓ (−swap(Y)⊙Wi) (exact negation, Y13 = negAll).
+#define MULWC(Y, off, D, T) \
+	VMULPD off(SI), Y, D \
+	VPERMILPD $5, Y, T \
+	VMULPD off+32(SI), T, T \
+	VXORPD Y13, T, T \
+	VADDSUBPD T, D, D
+
+// func dif4AVX(x0, x1, x2, x3 *complex128, tw *float64, pairs int)
+TEXT ·dif4AVX(SB), NOSPLIT, $0-48
+	MOVQ x0+0(FP), AX
+	MOVQ x1+8(FP), BX
+	MOVQ x2+16(FP), CX
+	MOVQ x3+24(FP), DX
+	MOVQ tw+32(FP), SI
+	MOVQ pairs+40(FP), DI
+	VMOVUPD negOdd<>(SB), Y15
+dif4loop:
+	VMOVUPD (AX), Y0
+	VMOVUPD (BX), Y1
+	VMOVUPD (CX), Y2
+	VMOVUPD (DX), Y3
+	VADDPD Y2, Y0, Y4 // t0 = a0 + a2
+	VSUBPD Y2, Y0, Y5 // t1 = a0 − a2
+	VADDPD Y3, Y1, Y6 // t2 = a1 + a3
+	VSUBPD Y3, Y1, Y7 // a1 − a3
+	VPERMILPD $5, Y7, Y7
+	VXORPD Y15, Y7, Y7 // t3 = −i(a1 − a3)
+	VADDPD Y6, Y4, Y8  // t0 + t2
+	VMOVUPD Y8, (AX)
+	VSUBPD Y6, Y4, Y9  // t0 − t2 (× w2 → x1)
+	VADDPD Y7, Y5, Y10 // t1 + t3 (× w1 → x2)
+	VSUBPD Y7, Y5, Y11 // t1 − t3 (× w3 → x3)
+	MULW(Y9, 64, Y12, Y14)
+	VMOVUPD Y12, (BX)
+	MULW(Y10, 0, Y12, Y14)
+	VMOVUPD Y12, (CX)
+	MULW(Y11, 128, Y12, Y14)
+	VMOVUPD Y12, (DX)
+	ADDQ $32, AX
+	ADDQ $32, BX
+	ADDQ $32, CX
+	ADDQ $32, DX
+	ADDQ $192, SI
+	DECQ DI
+	JNZ dif4loop
+	VZEROUPPER
+	RET
+
+// func dif4HalfZeroAVX(x0, x1, x2, x3 *complex128, tw *float64, pairs int)
+// The same with a2 = a3 = 0, which are not read.
+TEXT ·dif4HalfZeroAVX(SB), NOSPLIT, $0-48
+	MOVQ x0+0(FP), AX
+	MOVQ x1+8(FP), BX
+	MOVQ x2+16(FP), CX
+	MOVQ x3+24(FP), DX
+	MOVQ tw+32(FP), SI
+	MOVQ pairs+40(FP), DI
+	VMOVUPD negOdd<>(SB), Y15
+dif4hzloop:
+	VMOVUPD (AX), Y0
+	VMOVUPD (BX), Y1
+	VPERMILPD $5, Y1, Y7
+	VXORPD Y15, Y7, Y7 // −i·a1
+	VADDPD Y1, Y0, Y8  // a0 + a1
+	VMOVUPD Y8, (AX)
+	VSUBPD Y1, Y0, Y9  // (a0 − a1) × w2 → x1
+	VADDPD Y7, Y0, Y10 // (a0 − i a1) × w1 → x2
+	VSUBPD Y7, Y0, Y11 // (a0 + i a1) × w3 → x3
+	MULW(Y9, 64, Y12, Y14)
+	VMOVUPD Y12, (BX)
+	MULW(Y10, 0, Y12, Y14)
+	VMOVUPD Y12, (CX)
+	MULW(Y11, 128, Y12, Y14)
+	VMOVUPD Y12, (DX)
+	ADDQ $32, AX
+	ADDQ $32, BX
+	ADDQ $32, CX
+	ADDQ $32, DX
+	ADDQ $192, SI
+	DECQ DI
+	JNZ dif4hzloop
+	VZEROUPPER
+	RET
+
+// func dit4AVX(x0, x1, x2, x3 *complex128, tw *float64, pairs int, full bool)
+// Inverse butterflies with the conjugate twiddles; without full only x0
+// and x1 are written.
+TEXT ·dit4AVX(SB), NOSPLIT, $0-49
+	MOVQ x0+0(FP), AX
+	MOVQ x1+8(FP), BX
+	MOVQ x2+16(FP), CX
+	MOVQ x3+24(FP), DX
+	MOVQ tw+32(FP), SI
+	MOVQ pairs+40(FP), DI
+	MOVBLZX full+48(FP), R8
+	VMOVUPD negEven<>(SB), Y15
+	VMOVUPD negAll<>(SB), Y13
+dit4loop:
+	VMOVUPD (AX), Y0 // c0
+	VMOVUPD (CX), Y1
+	MULWC(Y1, 0, Y4, Y14) // c1 = x2·conj(w1)
+	VMOVUPD (BX), Y2
+	MULWC(Y2, 64, Y5, Y14) // c2 = x1·conj(w2)
+	VMOVUPD (DX), Y3
+	MULWC(Y3, 128, Y6, Y14) // c3 = x3·conj(w3)
+	VADDPD Y5, Y0, Y7 // t0 = c0 + c2
+	VSUBPD Y5, Y0, Y8 // t1 = c0 − c2
+	VADDPD Y6, Y4, Y9 // t2 = c1 + c3
+	VSUBPD Y6, Y4, Y10 // c1 − c3
+	VPERMILPD $5, Y10, Y10
+	VXORPD Y15, Y10, Y10 // t3 = i(c1 − c3)
+	VADDPD Y9, Y7, Y11
+	VMOVUPD Y11, (AX) // t0 + t2
+	VADDPD Y10, Y8, Y12
+	VMOVUPD Y12, (BX) // t1 + t3
+	TESTQ R8, R8
+	JZ dit4next
+	VSUBPD Y9, Y7, Y11
+	VMOVUPD Y11, (CX) // t0 − t2
+	VSUBPD Y10, Y8, Y12
+	VMOVUPD Y12, (DX) // t1 − t3
+dit4next:
+	ADDQ $32, AX
+	ADDQ $32, BX
+	ADDQ $32, CX
+	ADDQ $32, DX
+	ADDQ $192, SI
+	DECQ DI
+	JNZ dit4loop
+	VZEROUPPER
+	RET
