@@ -46,14 +46,67 @@ func RobustScale(x []float64, scratch []float64) (scale, median float64) {
 	return madScale * medianInPlace(s), med
 }
 
-// medianInPlace returns the median of s, reordering s.
+// medianInPlace returns the median of s (no NaN), reordering s. It selects
+// the middle order statistic (Hoare's quickselect, expected O(n)) rather
+// than sorting; the value is the same.
 func medianInPlace(s []float64) float64 {
-	slices.Sort(s)
 	n := len(s)
+	hi := selectKth(s, n/2)
 	if n%2 == 1 {
-		return s[n/2]
+		return hi
 	}
-	return 0.5 * (s[n/2-1] + s[n/2])
+	// s[:n/2] now holds the n/2 smallest values.
+	return 0.5 * (slices.Max(s[:n/2]) + hi)
+}
+
+// selectKth reorders s so that s[k] is its k-th smallest value (0-based),
+// every value before it ≤ s[k] and every value after it ≥ s[k], and returns
+// s[k]. Pivots are medians of three; after 64 rounds (adversarial input) it
+// sorts what remains, which bounds the cost at O(n log n).
+func selectKth(s []float64, k int) float64 {
+	lo, hi := 0, len(s)-1
+	for round := 0; lo < hi; round++ {
+		if round == 64 {
+			slices.Sort(s[lo : hi+1])
+			break
+		}
+		mid := lo + (hi-lo)/2
+		// Median of three to s[mid].
+		if s[mid] < s[lo] {
+			s[mid], s[lo] = s[lo], s[mid]
+		}
+		if s[hi] < s[lo] {
+			s[hi], s[lo] = s[lo], s[hi]
+		}
+		if s[hi] < s[mid] {
+			s[hi], s[mid] = s[mid], s[hi]
+		}
+		p := s[mid]
+		i, j := lo, hi
+		for i <= j {
+			for s[i] < p {
+				i++
+			}
+			for s[j] > p {
+				j--
+			}
+			if i <= j {
+				s[i], s[j] = s[j], s[i]
+				i++
+				j--
+			}
+		}
+		// Now s[lo..j] ≤ p ≤ s[i..hi] and s[j+1..i−1] = p.
+		switch {
+		case k <= j:
+			hi = j
+		case k >= i:
+			lo = i
+		default:
+			return s[k]
+		}
+	}
+	return s[k]
 }
 
 // ApplyInverse sets dst = C⁻¹v for C = diag(sigma2) + sigmaR2·11ᵀ with the

@@ -3,6 +3,7 @@ package search
 import (
 	"math"
 	"math/rand/v2"
+	"slices"
 	"testing"
 
 	"gonum.org/v1/gonum/floats/scalar"
@@ -286,5 +287,47 @@ func TestOutlierDoubletDropped(t *testing.T) {
 	t.Logf("loudest |SNR| with two station outliers: %.2f", worst)
 	if worst > 6.5 {
 		t.Errorf("two isolated outliers give |SNR| %.2f, want noise-like (< 6.5)", worst)
+	}
+}
+
+// TestMedianSelect checks the quickselect median against the sorted
+// definition on random, tied, sorted and reversed inputs of odd and even
+// length.
+func TestMedianSelect(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 6))
+	for trial := range 400 {
+		n := 1 + rng.IntN(300)
+		x := make([]float64, n)
+		for i := range x {
+			switch trial % 4 {
+			case 0:
+				x[i] = rng.NormFloat64()
+			case 1:
+				x[i] = float64(rng.IntN(4)) // many ties
+			case 2:
+				x[i] = float64(i)
+			case 3:
+				x[i] = float64(n - i)
+			}
+		}
+		ref := slices.Clone(x)
+		slices.Sort(ref)
+		want := ref[n/2]
+		if n%2 == 0 {
+			want = 0.5 * (ref[n/2-1] + ref[n/2])
+		}
+		if got := medianInPlace(slices.Clone(x)); got != want {
+			t.Fatalf("trial %d (n=%d): median %g, want %g", trial, n, got, want)
+		}
+		k := rng.IntN(n)
+		y := slices.Clone(x)
+		if got := selectKth(y, k); got != ref[k] {
+			t.Fatalf("trial %d: select(%d) = %g, want %g", trial, k, got, ref[k])
+		}
+		for i := range y {
+			if (i < k && y[i] > ref[k]) || (i > k && y[i] < ref[k]) {
+				t.Fatalf("trial %d: not partitioned around %d", trial, k)
+			}
+		}
 	}
 }

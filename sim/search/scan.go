@@ -529,9 +529,9 @@ func (s *searcher) warm(w *worker, m0, nb int) {
 }
 
 // thinBlock evaluates the thin-wall template of coupling cl on the data
-// series (prep.data) at the nb grid
-// points of the block (crossings in the worker's table, see
-// blockCrossings), leaving numerators and denominators in w.bnum, w.bden.
+// series (prep.data) at the nb grid points of the block (crossings in the
+// worker's table, see blockCrossings), leaving numerators and denominators
+// in w.bnum, w.bden.
 // The loop runs clock by clock over the block, so each clock's data are
 // read in order and the block's t0 accumulate independently (no
 // loop-carried dependency).
