@@ -104,10 +104,11 @@ type worker struct {
 	// lane is mm mod S. When uni[c], clock c's crossing interval is
 	// base[mm] + dl[c·maxSub + mm mod S] for every mm of the block: the lag
 	// in whole intervals is constant along each lane.
-	uni  []bool
-	dl   []int32
-	base []int     // [blockLen]
-	rl   []float64 // [maxSub] lane offsets within the interval
+	uni   []bool
+	dl    []int32
+	base  []int     // [blockLen]
+	baseM int       // the global grid index base was filled for (−1: none)
+	rl    []float64 // [maxSub] lane offsets within the interval
 	// Interpolation nodes of the crossing times (blockCrossings), kept from
 	// block to block: nodes[(speed·scan clocks + c)·4 + k] is the exact
 	// crossing at the first grid point of block nodeBlk[speed] − 1 + k.
@@ -144,6 +145,7 @@ func (s *searcher) newWorker() *worker {
 	w.uni, w.dl, w.base, w.rl = make([]bool, n), make([]int32, n*maxSub), make([]int, blockLen), make([]float64, maxSub)
 	w.nodes, w.nodeBlk = make([]float64, len(s.cfg.Speeds)*n*4), make([]int, len(s.cfg.Speeds))
 	w.resetCrossings()
+	w.baseM = -1
 	b := 2*s.half + 1
 	w.g, w.r = make([]float64, b), make([]float64, b)
 	w.bnum, w.bden, w.bq = make([]float64, blockLen), make([]float64, blockLen), make([]float64, blockLen)
@@ -234,8 +236,11 @@ func (s *searcher) blockCrossings(w *worker, m0, nb, vi int, invV float64, needC
 	lastX := float64(s.nEpoch-1) - 1e-9
 	S := s.cfg.T0Substeps
 	M := s.m0 + m0 // global grid index of the block's first point
-	for mm := range nb {
-		w.base[mm] = (M + mm) / S
+	if w.baseM != M {
+		for mm := range nb {
+			w.base[mm] = (M + mm) / S
+		}
+		w.baseM = M
 	}
 	solve := func(p []float64, j int) float64 {
 		t0 := float64(s.m0+j*blockLen) * s.dt0
