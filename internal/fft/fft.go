@@ -3,18 +3,18 @@
 // spectrum in bit-reversed order, the inverse takes bit-reversed order and
 // returns natural order, so a convolution never permutes. Both are radix-4
 // (one radix-2 stage when log2 n is odd). Stages larger than leafMax run
-// level by level over the whole array, their twiddles built per chunk of
-// 256 butterflies (one Sincos and one product each) and shared by all
-// blocks of the level; then every leafMax block runs its remaining stages
-// in cache with precomputed twiddle tables. Pruned variants skip the zero
-// second half of the input (ForwardHalfZero) and the unwanted second half
-// of the output (InverseFirstHalf), the shapes of a zero-padded linear
-// convolution.
+// level by level over the whole array, two levels per pass where possible,
+// their twiddles built per chunk of 256 butterflies (one Sincos per chunk
+// and one product per twiddle) and shared by all blocks of the level; then
+// every leafMax block runs its remaining stages in cache with precomputed
+// twiddle tables. Pruned variants skip the zero second half of the input
+// (ForwardHalfZero) and the unwanted second half of the output
+// (InverseFirstHalf), the shapes of a zero-padded linear convolution.
 //
-// On amd64 CPUs with AVX the butterflies run two at a time in 256-bit
-// registers (kernel_amd64.s). They do the same operations in the same
-// order as the Go loops, with no fused multiply-add, so every CPU gives the
-// same bits (TestVectorKernelsSameBits).
+// On amd64 CPUs with AVX the butterflies and the twiddle products run two
+// at a time in 256-bit registers (kernel_amd64.s). They do the same
+// operations in the same order as the Go loops, with no fused multiply-add,
+// so every CPU gives the same bits (TestVectorKernelsSameBits).
 //
 // Transforms are unnormalised: Forward computes X_k = Σ x_j e^(−2πijk/n) and
 // Inverse x_j = Σ X_k e^(+2πijk/n), so Inverse(Forward(x)) = n·x.
@@ -47,9 +47,11 @@ type Plan struct {
 	// smallV[l] is small[l] in the layout of the vector kernels (putTw),
 	// for s ≥ 8, when useAVX.
 	smallV [][]float64
-	// fine[l][r−1] holds e^(−2πirt/s), t < chunk, r = 1, 2, 3, for the
+	// fine[l][t][r−1] holds e^(−2πirt/s), t < chunk, r = 1, 2, 3, for the
 	// stages s = 2^l > leafMax.
-	fine [][3][]complex128
+	fine []*[chunk][3]complex128
+	// fineV[l] is fine[l] in the vector layout, when avx.
+	fineV []*[12 * chunk]float64
 	// avx selects the 256-bit vector butterflies (kernel_amd64.s), which
 	// give the same bits as the Go loops.
 	avx bool
@@ -78,7 +80,8 @@ func NewPlan(n int) *Plan {
 func newPlan(n int, avx bool) *Plan {
 	p := &Plan{n: n, logN: bits.TrailingZeros(uint(n)), avx: avx}
 	p.small = make([][][3]complex128, p.logN+1)
-	p.fine = make([][3][]complex128, p.logN+1)
+	p.fine = make([]*[chunk][3]complex128, p.logN+1)
+	p.fineV = make([]*[12 * chunk]float64, p.logN+1)
 	p.smallV = make([][]float64, p.logN+1)
 	for l := 2; l <= p.logN; l++ {
 		s := 1 << l
@@ -99,12 +102,19 @@ func newPlan(n int, avx bool) *Plan {
 				p.smallV[l] = v
 			}
 		} else {
-			for r := 1; r <= 3; r++ {
-				t := make([]complex128, chunk)
-				for j := range t {
-					t[j] = expi(-2 * math.Pi * float64(r*j) / float64(s))
+			t := new([chunk][3]complex128)
+			for j := range t {
+				for r := 1; r <= 3; r++ {
+					t[j][r-1] = expi(-2 * math.Pi * float64(r*j) / float64(s))
 				}
-				p.fine[l][r-1] = t
+			}
+			p.fine[l] = t
+			if avx {
+				v := new([12 * chunk]float64)
+				for j := range t {
+					putTw(v[:], j, t[j][0], t[j][1], t[j][2])
+				}
+				p.fineV[l] = v
 			}
 		}
 	}
@@ -189,9 +199,9 @@ func (p *Plan) InverseFirstHalf(x []complex128) {
 }
 
 // dif is the decimation-in-frequency transform: the stages larger than
-// leafMax level by level over the whole array (each level's twiddles are
-// built once and applied to all its blocks), then every leafMax block on
-// its own, in cache.
+// leafMax level by level over the whole array, two levels per pass where
+// possible (bigPair), each level's twiddles built once and applied to all
+// its blocks; then every leafMax block on its own, in cache.
 func (p *Plan) dif(x []complex128, halfZero bool) {
 	n := len(x)
 	if n <= leafMax {
@@ -202,31 +212,54 @@ func (p *Plan) dif(x []complex128, halfZero bool) {
 		return
 	}
 	s := n
-	for ; s > leafMax; s /= 4 {
-		p.bigStage(x, s, true, halfZero && s == n)
+	for ; s > leafMax; s /= 16 {
+		if s/4 > leafMax {
+			p.bigPair(x, s, true, halfZero && s == n)
+		} else {
+			p.bigStage(x, s, true, halfZero && s == n)
+			s *= 4 // one level only
+		}
 	}
-	for b := 0; b < n; b += s {
-		p.difLeaf(x[b : b+s])
+	leaf := n
+	for leaf > leafMax {
+		leaf /= 4
+	}
+	for b := 0; b < n; b += leaf {
+		p.difLeaf(x[b : b+leaf])
 	}
 }
 
-// dit is the inverse of dif: leaf blocks first, then the large levels; with
-// firstHalf the last level writes only the first half of x.
+// dit is the inverse of dif: leaf blocks first, then the large levels in
+// the reverse order and the same pairs; with firstHalf the last level
+// writes only the first half of x.
 func (p *Plan) dit(x []complex128, firstHalf bool) {
 	n := len(x)
 	if n <= leafMax {
 		p.ditLeaf(x)
 		return
 	}
-	s := n
-	for s > leafMax {
-		s /= 4
+	leaf := n
+	for leaf > leafMax {
+		leaf /= 4
 	}
-	for b := 0; b < n; b += s {
-		p.ditLeaf(x[b : b+s])
+	for b := 0; b < n; b += leaf {
+		p.ditLeaf(x[b : b+leaf])
 	}
-	for s *= 4; s <= n; s *= 4 {
-		p.bigStage(x, s, false, firstHalf && s == n)
+	var groups []int // sizes s of the groups of dif, negative for single levels
+	for s := n; s > leafMax; s /= 16 {
+		if s/4 > leafMax {
+			groups = append(groups, s)
+		} else {
+			groups = append(groups, -s)
+			s *= 4
+		}
+	}
+	for i := len(groups) - 1; i >= 0; i-- {
+		if s := groups[i]; s > 0 {
+			p.bigPair(x, s, false, firstHalf && s == n)
+		} else {
+			p.bigStage(x, -s, false, firstHalf && -s == n)
+		}
 	}
 }
 
@@ -238,61 +271,115 @@ func mulI(z complex128) complex128 { return complex(-imag(z), real(z)) }
 
 func conj(z complex128) complex128 { return complex(real(z), -imag(z)) }
 
-// bigStage is one radix-4 stage of size s > leafMax over every block of x,
-// forward (DIF) or inverse (DIT). Twiddles for each chunk of 256
-// butterflies are w_r = e^(∓2πir·j0/s)·e^(∓2πir·t/s), r = 1, 2, 3 (one
-// product each, from Sincos and the fine tables). Forward, the output of
-// residue r goes to quarter rev2(r) (0, 2, 1, 3), which makes the final
-// order bit-reversed, and flag means the second half of x is zero and not
-// read; inverse, flag means only the first half of x is written.
-func (p *Plan) bigStage(x []complex128, s int, forward, flag bool) {
-	q := s / 4
-	fine := &p.fine[bits.TrailingZeros(uint(s))]
-	f1, f2, f3 := fine[0][:chunk], fine[1][:chunk], fine[2][:chunk]
-	var w [chunk][3]complex128
-	var tv [12 * chunk]float64
+// twChunk holds the twiddles of one chunk of 256 butterflies of a large
+// stage, for the Go loops (w) and in the vector layout (tv).
+type twChunk struct {
+	w  [chunk][3]complex128
+	tv [12 * chunk]float64
+}
+
+// genTw fills tc for the butterflies j0 … j0+255 of the stage of size s:
+// w_r = e^(∓2πir·j0/s)·e^(∓2πir·t/s), r = 1, 2, 3 (one product each, from
+// Sincos and the fine tables); inverse twiddles are the conjugates. With
+// avx only tc.tv is filled, by twGenAVX, in the kernel's layout (putTw),
+// forward as they are and inverse conjugated back (the kernel multiplies
+// by the conjugate of its table), with the same products as the Go loop.
+func (p *Plan) genTw(tc *twChunk, s, j0 int, forward bool) {
+	fine := p.fine[bits.TrailingZeros(uint(s))]
 	sign := -1.0
 	if !forward {
 		sign = 1
 	}
-	for j0 := 0; j0 < q; j0 += chunk {
-		a := sign * 2 * math.Pi * float64(j0) / float64(s)
-		b1, b2, b3 := expi(a), expi(2*a), expi(3*a)
+	a := sign * 2 * math.Pi * float64(j0) / float64(s)
+	b1, b2, b3 := expi(a), expi(2*a), expi(3*a)
+	if p.avx {
+		// the same products as below, in the kernel's layout
+		base := [6]float64{real(b1), imag(b1), real(b2), imag(b2), real(b3), imag(b3)}
+		twGenAVX(&tc.tv[0], &p.fineV[bits.TrailingZeros(uint(s))][0], &base[0], chunk/2, !forward)
+		return
+	}
+	w := &tc.w
+	if forward {
 		for t := range w {
-			if forward {
-				w[t] = [3]complex128{b1 * f1[t], b2 * f2[t], b3 * f3[t]}
-			} else {
-				w[t] = [3]complex128{b1 * conj(f1[t]), b2 * conj(f2[t]), b3 * conj(f3[t])}
-			}
+			f := &fine[t]
+			w[t] = [3]complex128{b1 * f[0], b2 * f[1], b3 * f[2]}
 		}
-		if p.avx {
-			for t := range w {
-				if forward {
-					putTw(tv[:], t, w[t][0], w[t][1], w[t][2])
-				} else {
-					// the kernel multiplies by the conjugate of what it is given
-					putTw(tv[:], t, conj(w[t][0]), conj(w[t][1]), conj(w[t][2]))
-				}
-			}
+	} else {
+		for t := range w {
+			f := &fine[t]
+			w[t] = [3]complex128{b1 * conj(f[0]), b2 * conj(f[1]), b3 * conj(f[2])}
 		}
+	}
+}
+
+// butterflies applies one chunk of radix-4 butterflies to the chunk-long
+// columns starting at x[o], x[o+d], x[o+2d], x[o+3d]. Forward, the output
+// of residue r goes to column rev2(r) (0, 2, 1, 3), which makes the final
+// order bit-reversed, and flag means the last two columns are zero and not
+// read; inverse, flag means only the first two columns are written.
+func (p *Plan) butterflies(tc *twChunk, x []complex128, o, d int, forward, flag bool) {
+	x0 := x[o : o+chunk]
+	x1 := x[o+d : o+d+chunk]
+	x2 := x[o+2*d : o+2*d+chunk]
+	x3 := x[o+3*d : o+3*d+chunk]
+	switch {
+	case p.avx && forward && flag:
+		dif4HalfZeroAVX(&x0[0], &x1[0], &x2[0], &x3[0], &tc.tv[0], chunk/2)
+	case p.avx && forward:
+		dif4AVX(&x0[0], &x1[0], &x2[0], &x3[0], &tc.tv[0], chunk/2)
+	case p.avx:
+		dit4AVX(&x0[0], &x1[0], &x2[0], &x3[0], &tc.tv[0], chunk/2, !flag)
+	case forward && flag:
+		difHalfZeroGo(x0, x1, x2, x3, &tc.w)
+	case forward:
+		difGo(x0, x1, x2, x3, &tc.w)
+	default:
+		ditGo(x0, x1, x2, x3, &tc.w, !flag)
+	}
+}
+
+// bigStage is one radix-4 stage of size s > leafMax over every block of x,
+// forward (DIF) or inverse (DIT); flag as for butterflies, at the top level.
+func (p *Plan) bigStage(x []complex128, s int, forward, flag bool) {
+	q := s / 4
+	tc := new(twChunk)
+	for j0 := 0; j0 < q; j0 += chunk {
+		p.genTw(tc, s, j0, forward)
 		for b := 0; b < len(x); b += s {
-			x0 := x[b+j0 : b+j0+chunk]
-			x1 := x[b+q+j0 : b+q+j0+chunk]
-			x2 := x[b+2*q+j0 : b+2*q+j0+chunk]
-			x3 := x[b+3*q+j0 : b+3*q+j0+chunk]
-			switch {
-			case p.avx && forward && flag:
-				dif4HalfZeroAVX(&x0[0], &x1[0], &x2[0], &x3[0], &tv[0], chunk/2)
-			case p.avx && forward:
-				dif4AVX(&x0[0], &x1[0], &x2[0], &x3[0], &tv[0], chunk/2)
-			case p.avx:
-				dit4AVX(&x0[0], &x1[0], &x2[0], &x3[0], &tv[0], chunk/2, !flag)
-			case forward && flag:
-				difHalfZeroGo(x0, x1, x2, x3, &w)
-			case forward:
-				difGo(x0, x1, x2, x3, &w)
-			default:
-				ditGo(x0, x1, x2, x3, &w, !flag)
+			p.butterflies(tc, x, b+j0, q, forward, flag)
+		}
+	}
+}
+
+// bigPair does the stages of sizes s and s/4 (both > leafMax) in one pass:
+// for each chunk of columns j0 … j0+255 of the 16 rows of stride s/16, the
+// four level-s butterfly chunks at j0 + r·m (r = s/16) and then the four
+// level-s/4 chunks at j0 of each quarter, while those 16 chunks are in
+// cache (the reverse for the inverse). The butterflies and twiddles are
+// those of two bigStage calls.
+func (p *Plan) bigPair(x []complex128, s int, forward, flag bool) {
+	q, r := s/4, s/16
+	tcs := new([5]twChunk)
+	for j0 := 0; j0 < r; j0 += chunk {
+		for m := range 4 {
+			p.genTw(&tcs[m], s, j0+r*m, forward)
+		}
+		p.genTw(&tcs[4], q, j0, forward)
+		for b := 0; b < len(x); b += s {
+			if forward {
+				for m := range 4 {
+					p.butterflies(&tcs[m], x, b+r*m+j0, q, true, flag)
+				}
+				for m := range 4 {
+					p.butterflies(&tcs[4], x, b+q*m+j0, r, true, false)
+				}
+				continue
+			}
+			for m := range 4 {
+				p.butterflies(&tcs[4], x, b+q*m+j0, r, false, false)
+			}
+			for m := range 4 {
+				p.butterflies(&tcs[m], x, b+r*m+j0, q, false, flag)
 			}
 		}
 	}

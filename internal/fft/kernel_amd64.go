@@ -24,3 +24,6 @@ func dif4HalfZeroAVX(x0, x1, x2, x3 *complex128, tw *float64, pairs int)
 
 //go:noescape
 func dit4AVX(x0, x1, x2, x3 *complex128, tw *float64, pairs int, full bool)
+
+//go:noescape
+func twGenAVX(tv, fine, base *float64, pairs int, inverse bool)

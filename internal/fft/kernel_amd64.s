@@ -168,3 +168,98 @@ dit4next:
 	JNZ dit4loop
 	VZEROUPPER
 	RET
+
+// func twGenAVX(tv, fine, base *float64, pairs int, inverse bool)
+// Twiddles of a large stage in the vector layout: for each pair block of
+// fine (the layout above, holding f_r = e^(−2πirt/s)) and base b_r =
+// (base[2r−2], base[2r−1]), r = 1, 2, 3: forward w = b·f, i.e. re =
+// br·fr − bi·fi, im = br·fi + bi·fr (Go's complex product); inverse the
+// conjugate of b·conj(f): re = br·fr + bi·fi, im = br·fi − bi·fr.
+TEXT ·twGenAVX(SB), NOSPLIT, $0-33
+	MOVQ tv+0(FP), DI
+	MOVQ fine+8(FP), SI
+	MOVQ base+16(FP), AX
+	MOVQ pairs+24(FP), CX
+	MOVBLZX inverse+32(FP), DX
+	VBROADCASTSD 0(AX), Y8
+	VBROADCASTSD 8(AX), Y9
+	VBROADCASTSD 16(AX), Y10
+	VBROADCASTSD 24(AX), Y11
+	VBROADCASTSD 32(AX), Y12
+	VBROADCASTSD 40(AX), Y13
+	TESTQ DX, DX
+	JNZ twinv
+twfwd:
+	VMOVUPD 0(SI), Y0
+	VMOVUPD 32(SI), Y1
+	VMULPD Y8, Y0, Y6
+	VMULPD Y9, Y1, Y7
+	VSUBPD Y7, Y6, Y6 // br·fr − bi·fi
+	VMOVUPD Y6, 0(DI)
+	VMULPD Y8, Y1, Y6
+	VMULPD Y9, Y0, Y7
+	VADDPD Y7, Y6, Y6 // br·fi + bi·fr
+	VMOVUPD Y6, 32(DI)
+	VMOVUPD 64(SI), Y0
+	VMOVUPD 96(SI), Y1
+	VMULPD Y10, Y0, Y6
+	VMULPD Y11, Y1, Y7
+	VSUBPD Y7, Y6, Y6
+	VMOVUPD Y6, 64(DI)
+	VMULPD Y10, Y1, Y6
+	VMULPD Y11, Y0, Y7
+	VADDPD Y7, Y6, Y6
+	VMOVUPD Y6, 96(DI)
+	VMOVUPD 128(SI), Y0
+	VMOVUPD 160(SI), Y1
+	VMULPD Y12, Y0, Y6
+	VMULPD Y13, Y1, Y7
+	VSUBPD Y7, Y6, Y6
+	VMOVUPD Y6, 128(DI)
+	VMULPD Y12, Y1, Y6
+	VMULPD Y13, Y0, Y7
+	VADDPD Y7, Y6, Y6
+	VMOVUPD Y6, 160(DI)
+	ADDQ $192, SI
+	ADDQ $192, DI
+	DECQ CX
+	JNZ twfwd
+	VZEROUPPER
+	RET
+twinv:
+	VMOVUPD 0(SI), Y0
+	VMOVUPD 32(SI), Y1
+	VMULPD Y8, Y0, Y6
+	VMULPD Y9, Y1, Y7
+	VADDPD Y7, Y6, Y6 // br·fr + bi·fi
+	VMOVUPD Y6, 0(DI)
+	VMULPD Y8, Y1, Y6
+	VMULPD Y9, Y0, Y7
+	VSUBPD Y7, Y6, Y6 // br·fi − bi·fr
+	VMOVUPD Y6, 32(DI)
+	VMOVUPD 64(SI), Y0
+	VMOVUPD 96(SI), Y1
+	VMULPD Y10, Y0, Y6
+	VMULPD Y11, Y1, Y7
+	VADDPD Y7, Y6, Y6
+	VMOVUPD Y6, 64(DI)
+	VMULPD Y10, Y1, Y6
+	VMULPD Y11, Y0, Y7
+	VSUBPD Y7, Y6, Y6
+	VMOVUPD Y6, 96(DI)
+	VMOVUPD 128(SI), Y0
+	VMOVUPD 160(SI), Y1
+	VMULPD Y12, Y0, Y6
+	VMULPD Y13, Y1, Y7
+	VADDPD Y7, Y6, Y6
+	VMOVUPD Y6, 128(DI)
+	VMULPD Y12, Y1, Y6
+	VMULPD Y13, Y0, Y7
+	VSUBPD Y7, Y6, Y6
+	VMOVUPD Y6, 160(DI)
+	ADDQ $192, SI
+	ADDQ $192, DI
+	DECQ CX
+	JNZ twinv
+	VZEROUPPER
+	RET

@@ -15,3 +15,7 @@ func dif4HalfZeroAVX(x0, x1, x2, x3 *complex128, tw *float64, pairs int) {
 func dit4AVX(x0, x1, x2, x3 *complex128, tw *float64, pairs int, full bool) {
 	panic("fft: no vector kernel on this architecture")
 }
+
+func twGenAVX(tv, fine, base *float64, pairs int, inverse bool) {
+	panic("fft: no vector kernel on this architecture")
+}
