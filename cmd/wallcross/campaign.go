@@ -189,7 +189,10 @@ func mergeInto(out string, dirs []string, stdout io.Writer) error {
 		}
 		fmt.Fprintf(stdout, "  d = %.3g km: step at 50%% %.3g s [%.3g, %.3g], at 90%% %.3g s\n", f.Thickness/1e3, f.H50, f.H50Int.Low, f.H50Int.High, f.H90)
 	}
-	for _, n := range []string{"efficiency.csv", "summary.json", "background.csv", "efficiency.png"} {
+	if b := s.SNR10; b.N > 0 {
+		fmt.Fprintf(stdout, "injections with optimal network SNR ≥ 10: found %d of %d, efficiency %.3g [%.3g, %.3g] (Clopper–Pearson 95 %%)\n", b.Found, b.N, b.Eff, b.CP.Low, b.CP.High)
+	}
+	for _, n := range []string{"efficiency.csv", "efficiency_snr.csv", "summary.json", "background.csv", "efficiency.png"} {
 		fmt.Fprintf(stdout, "  %s\n", filepath.Join(out, n))
 	}
 	return nil

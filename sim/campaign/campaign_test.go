@@ -11,6 +11,8 @@ import (
 	"testing"
 
 	"wallcross/scenarios"
+	"wallcross/sim"
+	"wallcross/sim/search"
 )
 
 const testCampaign = `name: unit
@@ -250,5 +252,102 @@ func TestShardParsing(t *testing.T) {
 	s, _, err = ShardFromEnv(env(map[string]string{"SLURM_ARRAY_TASK_ID": "4", "SLURM_ARRAY_TASK_COUNT": "5"}), 1000, 2000)
 	if err != nil || s != (Shard{1004, 2000}) {
 		t.Errorf("offset → %v %v", s, err)
+	}
+}
+
+// TestOptimalSNR runs real trials of the CI campaign (reference search)
+// and checks the optimal-SNR column: the trial simulated without its wall
+// has exactly the same noise (the signal is zero before the first
+// crossing), the SNR grows in proportion to the step (the signal is linear
+// in the amplitude and the noise model barely moves), and the loudest
+// injection is found with a statistic close to its optimal SNR (the bank's
+// grid and clipping lose a little, noise adds N(0, 1)).
+func TestOptimalSNR(t *testing.T) {
+	dir := filepath.Join("..", "..", "testdata", "campaign")
+	c, err := scenarios.LoadCampaign(filepath.Join(dir, "ci-campaign.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	src, err := os.ReadFile(c.ScenarioPath())
+	if err != nil {
+		t.Fatal(err)
+	}
+	base, err := scenarios.Decode(c.ScenarioPath(), src)
+	if err != nil {
+		t.Fatal(err)
+	}
+	p := NewPlan(c)
+	// A finer bank than the campaign's, with the injected thickness class,
+	// so that the statistic can be held against the optimal SNR.
+	cfg := search.Config{Threshold: 3, Workers: 2, Directions: 500, Thicknesses: []float64{0, 1e7}}
+	r := &SimRunner{Plan: p, Base: base, BaseDir: dir, Search: cfg, TempDir: t.TempDir()}
+
+	// One trial (same geometry and noise draws) at every step of the grid.
+	var snr, step []float64
+	for ci := range p.Cells {
+		tr := p.Trial(0)
+		tr.Cell = p.Cells[ci]
+		o, err := r.RunTrial(context.Background(), tr)
+		if err != nil {
+			t.Fatal(err)
+		}
+		t.Logf("cell %d (step %.3g s): snr_opt %.2f, matched %v, stat %.2f", ci, tr.Cell.Step, o.SNROpt, o.Matched, o.Stat)
+		if !(o.SNROpt > 0) {
+			t.Fatalf("cell %d: snr_opt %g", ci, o.SNROpt)
+		}
+		snr, step = append(snr, o.SNROpt), append(step, tr.Cell.Step)
+		if ci == len(p.Cells)-1 {
+			if !o.Matched || o.Stat < 0.7*o.SNROpt || o.Stat > 1.1*o.SNROpt+3 {
+				t.Errorf("loudest cell: stat %.2f (matched %v) against optimal SNR %.2f", o.Stat, o.Matched, o.SNROpt)
+			}
+		}
+	}
+	for i := 1; i < len(snr); i++ {
+		if r := (snr[i] / snr[0]) / (step[i] / step[0]); r < 0.9 || r > 1.1 {
+			t.Errorf("snr_opt %.3g at step %.3g s and %.3g at %.3g s: not proportional", snr[0], step[0], snr[i], step[i])
+		}
+	}
+
+	// Noise identical without the wall.
+	tr := p.Trial(0)
+	s, _ := r.Scenario(tr)
+	presets, err := r.calibrated()
+	if err != nil {
+		t.Fatal(err)
+	}
+	opt := sim.Options{Seed: c.Seed, Trial: tr.ID, Workers: 1, SP3Interval: 300, Presets: presets}
+	with, err := sim.Run(sim.Config{Scenario: s, BaseDir: dir}, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s0 := *s
+	s0.Walls.Events = nil
+	without, err := sim.Run(sim.Config{Scenario: &s0, BaseDir: dir}, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sig, err := signalOf(with, without)
+	if err != nil {
+		t.Fatal(err)
+	}
+	first := math.Inf(1)
+	for _, x := range with.Crossings {
+		first = math.Min(first, x.TCross)
+	}
+	nz, before := 0, 0
+	for j := range sig {
+		for k, v := range sig[j] {
+			if float64(k)*with.Interval < first-600 {
+				before++
+				if v != 0 && !math.IsNaN(v) {
+					t.Fatalf("clock %s, epoch %d (%.0f s before the first crossing): signal %g s without a wall", with.Clocks[j].ID, k, first-float64(k)*with.Interval, v)
+				}
+			} else if v != 0 && !math.IsNaN(v) {
+				nz++
+			}
+		}
+	}
+	if before == 0 || nz == 0 {
+		t.Fatalf("%d values before the wall, %d non-zero after: nothing checked", before, nz)
 	}
 }

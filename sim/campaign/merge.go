@@ -156,6 +156,47 @@ type Summary struct {
 	Found         int            `json:"found"`
 	Fits          []Fit          `json:"fits"`
 	MedianDirErr  float64        `json:"median_direction_error_deg"`
+	// SNRBins is the efficiency against the injections' optimal network
+	// SNR (Outcome.SNROpt), injections in gaps left out; SNR10 pools every
+	// injection with SNROpt ≥ 10.
+	SNRBins []SNRBin `json:"efficiency_by_optimal_snr"`
+	SNR10   SNRBin   `json:"efficiency_optimal_snr_10_up"`
+}
+
+// SNRBin is the efficiency of the injections with optimal SNR in [Lo, Hi).
+type SNRBin struct {
+	Lo    float64        `json:"snr_lo"`
+	Hi    float64        `json:"snr_hi"` // +Inf: open bin
+	N     int            `json:"n"`
+	Found int            `json:"found"`
+	Eff   float64        `json:"eff"`
+	CP    score.Interval `json:"cp95"`
+}
+
+// snrEdges are the optimal-SNR bin edges of Summary.SNRBins.
+var snrEdges = []float64{0, 2, 4, 6, 8, 10, 15, 20, 30, math.Inf(1)}
+
+// snrBin counts the injections with lo ≤ SNROpt < hi.
+func snrBin(outs []Outcome, threshold, lo, hi float64) (SNRBin, error) {
+	b := SNRBin{Lo: lo, Hi: hi, Eff: math.NaN(), CP: score.Interval{Low: math.NaN(), High: math.NaN()}}
+	for _, o := range outs {
+		if o.InGap || math.IsNaN(o.SNROpt) || o.SNROpt < lo || o.SNROpt >= hi {
+			continue
+		}
+		b.N++
+		if o.Matched && o.Stat > threshold {
+			b.Found++
+		}
+	}
+	if b.N > 0 {
+		b.Eff = float64(b.Found) / float64(b.N)
+		iv, err := score.ClopperPearson(b.Found, b.N, 0.95)
+		if err != nil {
+			return b, err
+		}
+		b.CP = iv
+	}
+	return b, nil
 }
 
 // Fit is the sigmoid of one thickness (in the bias step, s).
@@ -243,6 +284,19 @@ func (p *Pooled) Tables() ([]score.EffRow, *Summary, error) {
 		}
 		rows = append(rows, r)
 	}
+	inj := p.Outcomes[:nInj]
+	for i := range len(snrEdges) - 1 {
+		b, err := snrBin(inj, s.Threshold, snrEdges[i], snrEdges[i+1])
+		if err != nil {
+			return nil, nil, err
+		}
+		s.SNRBins = append(s.SNRBins, b)
+	}
+	b10, err := snrBin(inj, s.Threshold, 10, math.Inf(1))
+	if err != nil {
+		return nil, nil, err
+	}
+	s.SNR10 = b10
 	if len(dirErrs) > 0 {
 		sort.Float64s(dirErrs)
 		s.MedianDirErr = median(dirErrs)
@@ -281,8 +335,8 @@ func median(x []float64) float64 {
 	return (x[n/2-1] + x[n/2]) / 2
 }
 
-// WriteMerged writes efficiency.csv, summary.json and background.csv
-// into dir.
+// WriteMerged writes efficiency.csv, efficiency_snr.csv (efficiency per
+// optimal-SNR bin), summary.json and background.csv into dir.
 func WriteMerged(dir string, p *Pooled) (*Summary, error) {
 	rows, s, err := p.Tables()
 	if err != nil {
@@ -299,6 +353,15 @@ func WriteMerged(dir string, p *Pooled) (*Summary, error) {
 		fmt.Fprintln(w, "trial,loudest_stat")
 		for _, o := range p.Outcomes[nInj:] {
 			fmt.Fprintf(w, "%d,%s\n", o.ID, ff(o.Loudest))
+		}
+		return nil
+	}); err != nil {
+		return nil, fmt.Errorf("campaign: %w", err)
+	}
+	if _, _, err := atomicfile.Write(filepath.Join(dir, "efficiency_snr.csv"), func(w *bufio.Writer) error {
+		fmt.Fprintln(w, "snr_lo,snr_hi,n,found,eff,cp_low,cp_high")
+		for _, b := range s.SNRBins {
+			fmt.Fprintf(w, "%s,%s,%d,%d,%s,%s,%s\n", ff(b.Lo), ff(b.Hi), b.N, b.Found, ff(b.Eff), ff(b.CP.Low), ff(b.CP.High))
 		}
 		return nil
 	}); err != nil {

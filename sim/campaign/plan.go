@@ -152,9 +152,13 @@ type Outcome struct {
 	Step float64
 	// InGap marks an injection that fell in a data gap (counted apart).
 	InGap bool
+	// SNROpt is the injection's optimal network SNR, sqrt(sᵀC⁻¹s) of its
+	// signal under the noise model the reference search fits to the trial
+	// (search.NoiseModel.SignalSNR); NaN for background trials.
+	SNROpt float64
 }
 
-var outcomeHeader = []string{"trial", "matched", "stat", "loudest", "t_err_s", "dir_err_deg", "step_s", "in_gap"}
+var outcomeHeader = []string{"trial", "matched", "stat", "loudest", "t_err_s", "dir_err_deg", "step_s", "in_gap", "snr_opt"}
 
 func ff(v float64) string {
 	if math.IsNaN(v) {
@@ -164,7 +168,7 @@ func ff(v float64) string {
 }
 
 func (o Outcome) strings() []string {
-	return []string{strconv.Itoa(o.ID), strconv.FormatBool(o.Matched), ff(o.Stat), ff(o.Loudest), ff(o.TErr), ff(o.DirErr), ff(o.Step), strconv.FormatBool(o.InGap)}
+	return []string{strconv.Itoa(o.ID), strconv.FormatBool(o.Matched), ff(o.Stat), ff(o.Loudest), ff(o.TErr), ff(o.DirErr), ff(o.Step), strconv.FormatBool(o.InGap), ff(o.SNROpt)}
 }
 
 func parseOutcome(rec []string) (Outcome, error) {
@@ -187,6 +191,9 @@ func parseOutcome(rec []string) (Outcome, error) {
 	}
 	if o.InGap, err = strconv.ParseBool(rec[7]); err != nil {
 		return o, fmt.Errorf("bad in_gap %q", rec[7])
+	}
+	if o.SNROpt, err = strconv.ParseFloat(rec[8], 64); err != nil {
+		return o, fmt.Errorf("bad snr_opt %q", rec[8])
 	}
 	return o, nil
 }

@@ -204,15 +204,21 @@ func (r *SimRunner) RunTrial(ctx context.Context, t Trial) (Outcome, error) {
 		return Outcome{}, err
 	}
 	cands := filepath.Join(dir, "candidates.csv")
+	net, err := search.FromDataset(ds)
+	if err != nil {
+		return Outcome{}, err
+	}
+	var nm search.NoiseModel
 	if r.Pipeline != nil {
 		if err := r.Pipeline.Search(ctx, dir, cands); err != nil {
 			return Outcome{}, err
 		}
-	} else {
-		net, err := search.FromDataset(ds)
-		if err != nil {
-			return Outcome{}, err
+		if !t.Background {
+			if nm, err = search.FitNoise(net, r.Search); err != nil {
+				return Outcome{}, err
+			}
 		}
+	} else {
 		res, err := search.Search(net, r.Search)
 		if err != nil {
 			return Outcome{}, err
@@ -220,13 +226,64 @@ func (r *SimRunner) RunTrial(ctx context.Context, t Trial) (Outcome, error) {
 		if err := search.WriteCandidatesFile(cands, res.Candidates); err != nil {
 			return Outcome{}, err
 		}
+		nm = res.Noise
 	}
-	return scoreTrial(dir, cands, c, t)
+	o, err := scoreTrial(dir, cands, c, t)
+	if err != nil || t.Background {
+		return o, err
+	}
+	o.SNROpt, err = r.optimalSNR(s, net, ds, nm, t)
+	return o, err
+}
+
+// optimalSNR returns the optimal network SNR of trial t's injection: the
+// trial is simulated again without its wall (the same seed and trial
+// streams, so the noise and nuisances are the same draws), the difference
+// of the two products is the wall's signal as the clock solutions carry
+// it, and its SNR is taken under the noise model nm fitted to the data.
+func (r *SimRunner) optimalSNR(s *scenarios.Scenario, net *search.Network, ds *sim.Dataset, nm search.NoiseModel, t Trial) (float64, error) {
+	c := r.Plan.Campaign
+	presets, err := r.calibrated()
+	if err != nil {
+		return math.NaN(), err
+	}
+	s0 := *s
+	s0.Walls.Events = nil
+	d0, err := sim.Run(sim.Config{Scenario: &s0, BaseDir: r.BaseDir}, sim.Options{Seed: c.Seed, Trial: t.ID, Workers: 1, SP3Interval: 300, Presets: presets})
+	if err != nil {
+		return math.NaN(), err
+	}
+	sig, err := signalOf(ds, d0)
+	if err != nil {
+		return math.NaN(), err
+	}
+	return nm.SignalSNR(net, sig)
+}
+
+// signalOf returns with − without per clock ([clock][epoch], s); an epoch
+// absent in either is NaN.
+func signalOf(with, without *sim.Dataset) ([][]float64, error) {
+	nc := len(with.Clocks)
+	if len(without.Clocks) != nc || without.Epochs != with.Epochs {
+		return nil, fmt.Errorf("campaign: trial without its wall has %d clocks × %d epochs, with it %d × %d", len(without.Clocks), without.Epochs, nc, with.Epochs)
+	}
+	out := make([][]float64, nc)
+	for j := range out {
+		if without.Clocks[j].ID != with.Clocks[j].ID {
+			return nil, fmt.Errorf("campaign: clock %d is %q without the wall, %q with it", j, without.Clocks[j].ID, with.Clocks[j].ID)
+		}
+		v := make([]float64, with.Epochs)
+		for k := range v {
+			v[k] = with.Bias[k*nc+j] - without.Bias[k*nc+j]
+		}
+		out[j] = v
+	}
+	return out, nil
 }
 
 // scoreTrial matches the candidates of one trial to its injection.
 func scoreTrial(dir, cands string, c *scenarios.Campaign, t Trial) (Outcome, error) {
-	o := Outcome{Stat: math.NaN(), Loudest: math.NaN(), TErr: math.NaN(), DirErr: math.NaN(), Step: math.NaN()}
+	o := Outcome{Stat: math.NaN(), Loudest: math.NaN(), TErr: math.NaN(), DirErr: math.NaN(), Step: math.NaN(), SNROpt: math.NaN()}
 	tr, err := score.ReadTruth(dir)
 	if err != nil {
 		return o, err
