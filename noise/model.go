@@ -180,11 +180,7 @@ func (m ClockModel) addNoise(x []float64, rng *rand.Rand, tau0 float64, g *flick
 	var buf [normalChunk]float64
 	// White PM: x_k = σ w_k with σ² = Q_d(x) = h_2/(8π²τ0).
 	if h := m.H[WhitePM]; h > 0 {
-		s := math.Sqrt(Qd(WhitePM, h, tau0))
-		fillNormal(rng, x)
-		for k := range x {
-			x[k] *= s
-		}
+		fillNormal(rng, x, math.Sqrt(Qd(WhitePM, h, tau0)))
 	}
 	flicker := m.H[FlickerPM] > 0 || m.H[FlickerFM] > 0
 	var v []float64
@@ -193,11 +189,7 @@ func (m ClockModel) addNoise(x []float64, rng *rand.Rand, tau0 float64, g *flick
 	}
 	// Flicker PM: phase input of the a = 1 filter, σ² = Q_d(x) = h_1/(4π).
 	if h := m.H[FlickerPM]; h > 0 {
-		s := math.Sqrt(Qd(FlickerPM, h, tau0))
-		fillNormal(rng, v)
-		for k := range v {
-			v[k] *= s
-		}
+		fillNormal(rng, v, math.Sqrt(Qd(FlickerPM, h, tau0)))
 	}
 	// White FM: y_k white with σ_y² = h_0/(2τ0); x_{k+1} = x_k + τ0 y_k.
 	if h := m.H[WhiteFM]; h > 0 {
@@ -205,7 +197,7 @@ func (m ClockModel) addNoise(x []float64, rng *rand.Rand, tau0 float64, g *flick
 		c := 0.0
 		for k0 := 0; k0 < n; k0 += normalChunk {
 			w := buf[:min(normalChunk, n-k0)]
-			fillNormal(rng, w)
+			fillNormal(rng, w, 1)
 			xs := x[k0 : k0+len(w)]
 			for i, r := range w {
 				xs[i] += c
@@ -221,7 +213,7 @@ func (m ClockModel) addNoise(x []float64, rng *rand.Rand, tau0 float64, g *flick
 		c := 0.0
 		for k0 := 0; k0 < n; k0 += normalChunk {
 			w := buf[:min(normalChunk, n-k0)]
-			fillNormal(rng, w)
+			fillNormal(rng, w, 1)
 			vs := v[k0 : k0+len(w)]
 			for i, r := range w {
 				vs[i] += c
@@ -235,7 +227,7 @@ func (m ClockModel) addNoise(x []float64, rng *rand.Rand, tau0 float64, g *flick
 		y, c := 0.0, 0.0
 		for k0 := 0; k0 < n; k0 += normalChunk {
 			w := buf[:min(normalChunk, n-k0)]
-			fillNormal(rng, w)
+			fillNormal(rng, w, 1)
 			xs := x[k0 : k0+len(w)]
 			for i, r := range w {
 				xs[i] += c

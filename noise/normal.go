@@ -86,10 +86,11 @@ func init() {
 	}
 }
 
-// fillNormal fills dst with independent N(0, 1) deviates drawn from rng:
+// fillNormal fills dst with independent N(0, 1) deviates drawn from rng,
+// each multiplied by scale:
 // ⌈len(dst)/2⌉ calls of rng.Uint64() plus the rare extra ones of the wedge
 // and tail steps, so the same rng state always gives the same values.
-func fillNormal(rng *rand.Rand, dst []float64) {
+func fillNormal(rng *rand.Rand, dst []float64, scale float64) {
 	k := 0
 	for ; k+1 < len(dst); k += 2 {
 		r := rng.Uint64()
@@ -98,17 +99,17 @@ func fillNormal(rng *rand.Rand, dst []float64) {
 		u0, u1 := uint32(r), uint32(r>>32)
 		t0, t1 := u0&0x7fffff00|128, u1&0x7fffff00|128
 		i0, i1 := u0&(zigN-1), u1&(zigN-1)
-		d[0] = math.Float64frombits(math.Float64bits(float64(t0)*zigW[i0]) | uint64(u0>>31)<<63)
-		d[1] = math.Float64frombits(math.Float64bits(float64(t1)*zigW[i1]) | uint64(u1>>31)<<63)
+		d[0] = scale * math.Float64frombits(math.Float64bits(float64(t0)*zigW[i0])|uint64(u0>>31)<<63)
+		d[1] = scale * math.Float64frombits(math.Float64bits(float64(t1)*zigW[i1])|uint64(u1>>31)<<63)
 		if t0 >= zigK[i0] {
-			d[0] = zigSlow(u0, rng)
+			d[0] = scale * zigSlow(u0, rng)
 		}
 		if t1 >= zigK[i1] {
-			d[1] = zigSlow(u1, rng)
+			d[1] = scale * zigSlow(u1, rng)
 		}
 	}
 	if k < len(dst) {
-		dst[k] = zigFast(uint32(rng.Uint64()), rng)
+		dst[k] = scale * zigFast(uint32(rng.Uint64()), rng)
 	}
 }
 

@@ -71,8 +71,8 @@ func TestFillNormalDistribution(t *testing.T) {
 	const n = 4_000_000
 	rng := rand.New(rand.NewPCG(2024, 11))
 	x := make([]float64, n)
-	fillNormal(rng, x[:1001]) // odd lengths and restarts must chain
-	fillNormal(rng, x[1001:])
+	fillNormal(rng, x[:1001], 1) // odd lengths and restarts must chain
+	fillNormal(rng, x[1001:], 1)
 	norm := distuv.UnitNormal
 	s := slices.Clone(x)
 	slices.Sort(s)
@@ -136,8 +136,8 @@ func TestFillNormalDistribution(t *testing.T) {
 func TestFillNormalDeterministic(t *testing.T) {
 	a := make([]float64, 5000)
 	b := make([]float64, 5000)
-	fillNormal(rand.New(rand.NewPCG(9, 9)), a)
-	fillNormal(rand.New(rand.NewPCG(9, 9)), b)
+	fillNormal(rand.New(rand.NewPCG(9, 9)), a, 1)
+	fillNormal(rand.New(rand.NewPCG(9, 9)), b, 1)
 	if !slices.Equal(a, b) {
 		t.Fatal("same seed, different values")
 	}
@@ -158,7 +158,7 @@ func BenchmarkFillNormal(b *testing.B) {
 	rng := rand.New(rand.NewPCG(1, 2))
 	buf := make([]float64, 4096)
 	for b.Loop() {
-		fillNormal(rng, buf)
+		fillNormal(rng, buf, 1)
 	}
 	b.ReportMetric(b.Elapsed().Seconds()*1e9/float64(b.N)/float64(len(buf)), "ns/normal")
 }

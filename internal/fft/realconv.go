@@ -95,8 +95,8 @@ func (p *Plan) MultiplyPacked(z, coef []complex128) {
 				w := base * brev[t]
 				sn, cs := -imag(w), real(w)
 				sj, dj := cl[t], ch[chunk-1-t]
-				ds := dj * complex(sn, 0)
-				dc := dj * complex(cs, 0)
+				ds := complex(real(dj)*sn, imag(dj)*sn)
+				dc := complex(real(dj)*cs, imag(dj)*cs)
 				zj, zc := zl[t], zh[chunk-1-t]
 				a := sj - ds
 				ac := conj(sj + ds)
@@ -111,8 +111,8 @@ func (p *Plan) MultiplyPacked(z, coef []complex128) {
 func multiplyPair(z, coef []complex128, pp, pc int, w complex128) {
 	sn, cs := -imag(w), real(w)
 	sj, dj := coef[pp], coef[pc]
-	ds := dj * complex(sn, 0)
-	dc := dj * complex(cs, 0)
+	ds := complex(real(dj)*sn, imag(dj)*sn)
+	dc := complex(real(dj)*cs, imag(dj)*cs)
 	zj, zc := z[pp], z[pc]
 	a := sj - ds
 	ac := conj(sj + ds)
