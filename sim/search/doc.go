@@ -106,7 +106,8 @@
 // lane form c1 is a fraction of one multiply-add per t0 point plus a
 // per-block cost per clock (one solve, the cubic's range, the lane set-up),
 // which dominates at 32 points per block. Thick kernels depend on the
-// crossing phase and take the per-point path (≈ 10× slower per template). Directions are
+// crossing phase and take the per-point path: a 1e4 km class costs ≈ 9×
+// a thin one on the benchmark day (measured with the ScanDirection set-up). Directions are
 // independent jobs for a pool of Config.Workers goroutines; each worker
 // keeps its own per-t0 maxima, merged with a total order (larger stat,
 // then lower template index), so the output does not depend on the worker
