@@ -467,6 +467,10 @@ func (p *Plan) difLeaf(x []complex128) {
 	}
 	switch s {
 	case 4:
+		if p.avx {
+			dif4ptAVX(&x[0], n/4)
+			break
+		}
 		for b := 0; b+3 < n; b += 4 {
 			v := x[b : b+4 : b+4]
 			a0, a1, a2, a3 := v[0], v[1], v[2], v[3]
@@ -495,6 +499,9 @@ func (p *Plan) ditLeaf(x []complex128) {
 			v[0], v[1] = v[0]+v[1], v[0]-v[1]
 		}
 		s = 8
+	} else if n >= 4 && p.avx {
+		dit4ptAVX(&x[0], n/4)
+		s = 16
 	} else if n >= 4 {
 		for b := 0; b+3 < n; b += 4 {
 			v := x[b : b+4 : b+4]

@@ -27,3 +27,9 @@ func dit4AVX(x0, x1, x2, x3 *complex128, tw *float64, pairs int, full bool)
 
 //go:noescape
 func twGenAVX(tv, fine, base *float64, pairs int, inverse bool)
+
+//go:noescape
+func dif4ptAVX(x *complex128, blocks int)
+
+//go:noescape
+func dit4ptAVX(x *complex128, blocks int)

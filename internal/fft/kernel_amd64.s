@@ -263,3 +263,73 @@ twinv:
 	JNZ twinv
 	VZEROUPPER
 	RET
+
+DATA negHighOdd<>+0(SB)/8, $0x0000000000000000
+DATA negHighOdd<>+8(SB)/8, $0x0000000000000000
+DATA negHighOdd<>+16(SB)/8, $0x0000000000000000
+DATA negHighOdd<>+24(SB)/8, $0x8000000000000000
+GLOBL negHighOdd<>(SB), RODATA|NOPTR, $32
+
+DATA negHighEven<>+0(SB)/8, $0x0000000000000000
+DATA negHighEven<>+8(SB)/8, $0x0000000000000000
+DATA negHighEven<>+16(SB)/8, $0x8000000000000000
+DATA negHighEven<>+24(SB)/8, $0x0000000000000000
+GLOBL negHighEven<>(SB), RODATA|NOPTR, $32
+
+// func dif4ptAVX(x *complex128, blocks int)
+// The last DIF stage (size 4, no twiddles) on consecutive 4-point blocks,
+// as the Go loop: t0 = a0+a2, t1 = a0−a2, t2 = a1+a3, t3 = −i(a1−a3);
+// out t0+t2, t0−t2, t1+t3, t1−t3.
+TEXT ·dif4ptAVX(SB), NOSPLIT, $0-16
+	MOVQ x+0(FP), AX
+	MOVQ blocks+8(FP), CX
+	VMOVUPD negHighOdd<>(SB), Y15
+dif4ptloop:
+	VMOVUPD (AX), Y0   // a0 | a1
+	VMOVUPD 32(AX), Y1 // a2 | a3
+	VADDPD Y1, Y0, Y2  // t0 | t2
+	VSUBPD Y1, Y0, Y3  // t1 | a1−a3
+	VPERMILPD $6, Y3, Y3
+	VXORPD Y15, Y3, Y3 // t1 | t3
+	VPERM2F128 $0x20, Y3, Y2, Y4 // t0 | t1
+	VPERM2F128 $0x31, Y3, Y2, Y5 // t2 | t3
+	VADDPD Y5, Y4, Y6  // t0+t2 | t1+t3
+	VSUBPD Y5, Y4, Y7  // t0−t2 | t1−t3
+	VPERM2F128 $0x20, Y7, Y6, Y8
+	VPERM2F128 $0x31, Y7, Y6, Y9
+	VMOVUPD Y8, (AX)
+	VMOVUPD Y9, 32(AX)
+	ADDQ $64, AX
+	DECQ CX
+	JNZ dif4ptloop
+	VZEROUPPER
+	RET
+
+// func dit4ptAVX(x *complex128, blocks int)
+// The first DIT stage (size 4) on consecutive blocks, as the Go loop:
+// c0, c1, c2, c3 = v0, v2, v1, v3; t0 = c0+c2, t1 = c0−c2, t2 = c1+c3,
+// t3 = i(c1−c3); out t0+t2, t1+t3, t0−t2, t1−t3.
+TEXT ·dit4ptAVX(SB), NOSPLIT, $0-16
+	MOVQ x+0(FP), AX
+	MOVQ blocks+8(FP), CX
+	VMOVUPD negHighEven<>(SB), Y15
+dit4ptloop:
+	VMOVUPD (AX), Y0   // v0 | v1
+	VMOVUPD 32(AX), Y1 // v2 | v3
+	VPERM2F128 $0x20, Y1, Y0, Y2 // c0 | c1
+	VPERM2F128 $0x31, Y1, Y0, Y3 // c2 | c3
+	VADDPD Y3, Y2, Y4  // t0 | t2
+	VSUBPD Y3, Y2, Y5  // t1 | c1−c3
+	VPERMILPD $6, Y5, Y5
+	VXORPD Y15, Y5, Y5 // t1 | t3
+	VPERM2F128 $0x20, Y5, Y4, Y6 // t0 | t1
+	VPERM2F128 $0x31, Y5, Y4, Y7 // t2 | t3
+	VADDPD Y7, Y6, Y8  // t0+t2 | t1+t3
+	VSUBPD Y7, Y6, Y9  // t0−t2 | t1−t3
+	VMOVUPD Y8, (AX)
+	VMOVUPD Y9, 32(AX)
+	ADDQ $64, AX
+	DECQ CX
+	JNZ dit4ptloop
+	VZEROUPPER
+	RET

@@ -19,3 +19,7 @@ func dit4AVX(x0, x1, x2, x3 *complex128, tw *float64, pairs int, full bool) {
 func twGenAVX(tv, fine, base *float64, pairs int, inverse bool) {
 	panic("fft: no vector kernel on this architecture")
 }
+
+func dif4ptAVX(x *complex128, blocks int) { panic("fft: no vector kernel on this architecture") }
+
+func dit4ptAVX(x *complex128, blocks int) { panic("fft: no vector kernel on this architecture") }
