@@ -74,3 +74,42 @@ func BenchmarkGeneratorFiveTerm(b *testing.B) {
 	b.ReportMetric(float64(n)*float64(b.N)/b.Elapsed().Seconds(), "samples/s")
 	b.ReportMetric(float64(n)*float64(b.N)/(cpuTime()-c0).Seconds(), "samples/cpu-s")
 }
+
+// BenchmarkPhaseBreakdown splits BenchmarkGeneratorFiveTerm's 2^20-sample
+// series into its parts, each reported in ns per output sample: the 5n
+// normal deviates, the flicker convolution (forward transform, product,
+// inverse, add-back) with a cached kernel, and the whole series.
+func BenchmarkPhaseBreakdown(b *testing.B) {
+	const n = 1 << 20
+	m := ClockModel{H: [5]float64{1e-25, 1e-24, 1e-23, 1e-28, 1e-34}, Drift: 1e-18}
+	perSample := func(b *testing.B) {
+		b.ReportMetric(b.Elapsed().Seconds()*1e9/float64(b.N)/n, "ns/sample")
+	}
+	b.Run("normals", func(b *testing.B) {
+		rng := rand.New(rand.NewPCG(1, 2))
+		buf := make([]float64, n)
+		for b.Loop() {
+			for range 5 {
+				fillNormal(rng, buf, 1)
+			}
+		}
+		perSample(b)
+	})
+	b.Run("convolution", func(b *testing.B) {
+		var g flickerConv
+		x := make([]float64, n)
+		for b.Loop() {
+			g.input(n)[n-1] = 1
+			g.apply(x)
+		}
+		perSample(b)
+	})
+	b.Run("whole", func(b *testing.B) {
+		g := NewGenerator(n)
+		rng := rand.New(rand.NewPCG(1, 2))
+		for b.Loop() {
+			sinkX = g.Phase(m, rng, 30)
+		}
+		perSample(b)
+	})
+}
