@@ -21,9 +21,10 @@ func newSearchCmd() *command {
 	couplings := fs.String("couplings", "", "coupling classes `LIST`: eff (K = 1 for every clock) or keys of the clocks' sensitivity coefficients in the manifest (default eff)")
 	whiten := fs.Int("whiten", 0, "order `P` of the shared AR whitening filter (0 = white pseudo-frequencies)")
 	workers := fs.Int("workers", 0, "goroutines `N` (default GOMAXPROCS; the output does not depend on it)")
+	veto := fs.Float64("sweep-veto", 25, "drop candidates whose sweep χ² exceeds `X` and whose clock-by-clock amplitude is below half the reference part's (reference-clock events); 0 keeps every candidate")
 	return &command{
 		Name:  "search",
-		Usage: "search DATASET --out candidates.csv [--threshold X] [--directions N] [--speeds LIST] [--thickness LIST] [--couplings LIST] [--whiten P] [--workers N]",
+		Usage: "search DATASET --out candidates.csv [--threshold X] [--directions N] [--speeds LIST] [--thickness LIST] [--couplings LIST] [--whiten P] [--sweep-veto X] [--workers N]",
 		Short: "run the reference matched-filter search on a dataset",
 		Long: `Search runs the reference pipeline (package sim/search) on a dataset directory
 (manifest.json, clocks.csv or clocks.npy, stations.csv, orbits.sp3) and
@@ -43,12 +44,23 @@ matched-filter |SNR| over the bank; grid points above the threshold are
 clustered in time (each loudest point absorbs the points within the
 longest sweep 2R/v_min of it) and the loudest of each cluster is written.
 
+Sweep veto: every series carries the reference clock's crossing, so a
+step of the reference clock itself (a phase jump) puts the same step in
+every series at one instant and matches the reference part of a template.
+For each candidate the clock-by-clock part (each clock's own crossing) and
+the reference part are fitted jointly; a wall gives both the same
+amplitude. sweep_chi2 = (own − ref)²/var is χ² with one degree of freedom
+for a wall; candidates above --sweep-veto whose own amplitude is below half
+the reference one are dropped (their number is reported).
+
 The candidate file has the columns
-  t0_s,stat,nx,ny,nz,speed_m_s,thickness_m,amplitude,coupling
+  t0_s,stat,nx,ny,nz,speed_m_s,thickness_m,amplitude,coupling,sweep_chi2
 t0_s: s since the first epoch, the wall passes the geocentre; stat: |SNR|;
 n: unit direction of motion, celestial frame; thickness_m empty for a thin
 wall; amplitude: fitted bias step (s) of a clock with unit sensitivity,
-signed. The file is written to a temporary name and renamed.
+signed; sweep_chi2: the sweep consistency above (NaN when the reference's
+crossing is outside the data). The file is written to a temporary name
+and renamed.
 
 Cost: about directions × speeds × t0 points × clocks × (1 + thickness
 and coupling classes × kernel length) operations; a day of 30-s data
@@ -70,7 +82,13 @@ project's 2-core machine. A thick class (--thickness 0,1e4) costs about
 			if *directions < 0 || *workers < 0 || *whiten < 0 || *whiten > 8 {
 				return usageErrorf("--directions %d, --workers %d, --whiten %d: want directions, workers ≥ 0 and whiten in 0..8", *directions, *workers, *whiten)
 			}
-			cfg := search.Config{Threshold: *threshold, Directions: *directions, Whiten: *whiten, Workers: *workers}
+			if math.IsNaN(*veto) || *veto < 0 {
+				return usageErrorf("--sweep-veto %g: want a χ² ≥ 0 (0 keeps every candidate)", *veto)
+			}
+			cfg := search.Config{Threshold: *threshold, Directions: *directions, Whiten: *whiten, Workers: *workers, SweepVeto: *veto}
+			if *veto == 0 {
+				cfg.SweepVeto = -1 // 0 means "default" in Config
+			}
 			if *threshold == 0 {
 				cfg.Threshold = math.SmallestNonzeroFloat64 // 0 means "default" in Config
 			}
@@ -136,6 +154,20 @@ func runSearch(dir, out string, cfg search.Config, stdout, stderr io.Writer) err
 	c := res.Config
 	fmt.Fprintf(stderr, "bank: %d directions x %d speeds x %d thicknesses x %d couplings; %.3g template·clock·t0 evaluations; σ_ref %.3g\n",
 		len(res.Directions), len(c.Speeds), len(c.Thicknesses), len(c.Couplings), res.Evaluations, res.Noise.SigmaRef)
+	if n := len(res.Vetoed); n > 0 {
+		fmt.Fprintf(stderr, "sweep veto: %d candidates dropped (loudest stat %.3g at t0 %.0f s, sweep χ² %.3g)\n", n, loudest(res.Vetoed).Stat, loudest(res.Vetoed).T0, loudest(res.Vetoed).SweepChi2)
+	}
 	fmt.Fprintf(stdout, "%d candidates written to %s (%.1f s)\n", len(res.Candidates), out, time.Since(t0).Seconds())
 	return nil
+}
+
+// loudest returns the candidate with the largest statistic (cs not empty).
+func loudest(cs []search.Candidate) search.Candidate {
+	best := cs[0]
+	for _, c := range cs[1:] {
+		if c.Stat > best.Stat {
+			best = c
+		}
+	}
+	return best
 }

@@ -64,7 +64,7 @@ func TestSearchCommand(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !strings.HasPrefix(string(b), "t0_s,stat,nx,ny,nz,speed_m_s,thickness_m,amplitude,coupling\n") {
+	if !strings.HasPrefix(string(b), "t0_s,stat,nx,ny,nz,speed_m_s,thickness_m,amplitude,coupling,sweep_chi2\n") {
 		t.Fatalf("candidate file:\n%s", b)
 	}
 	got, err := score.ReadCandidatesFile(cands)

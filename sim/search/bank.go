@@ -59,6 +59,11 @@ type Config struct {
 	// wall exceeds in most clocks; chance coincidences of independent
 	// outliers (a few per day in real products) rarely reach 4 clocks.
 	Coincidence int
+	// SweepVeto is the χ² above which a candidate whose clock-by-clock
+	// part is less than half its reference part is dropped as a
+	// reference-clock event (default 25; negative disables). See
+	// Candidate.SweepChi2.
+	SweepVeto float64
 	// Workers is the number of goroutines (default GOMAXPROCS, capped at the
 	// number of directions). The output does not depend on it.
 	Workers int
@@ -146,6 +151,12 @@ func (cfg Config) withDefaults() (Config, error) {
 	}
 	if c.Workers <= 0 {
 		c.Workers = runtime.GOMAXPROCS(0)
+	}
+	if c.SweepVeto == 0 {
+		c.SweepVeto = 25
+	}
+	if math.IsNaN(c.SweepVeto) {
+		return c, fmt.Errorf("search: sweep veto χ² is NaN")
 	}
 	return c, nil
 }

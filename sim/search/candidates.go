@@ -12,9 +12,10 @@ import (
 // CandidateColumns is the header of a candidate file (DESIGN.md §5: t0_s
 // and stat required; the rest optional). amplitude is the fitted bias step
 // of a clock with unit sensitivity, s; coupling is the coupling class.
-// thickness_m is empty for a thin-wall template (d ≪ v·τ0: unresolved).
+// thickness_m is empty for a thin-wall template (d ≪ v·τ0: unresolved);
+// sweep_chi2 is Candidate.SweepChi2 (NaN when it cannot be formed).
 func CandidateColumns() []string {
-	return []string{"t0_s", "stat", "nx", "ny", "nz", "speed_m_s", "thickness_m", "amplitude", "coupling"}
+	return []string{"t0_s", "stat", "nx", "ny", "nz", "speed_m_s", "thickness_m", "amplitude", "coupling", "sweep_chi2"}
 }
 
 func fmtG(v float64) string { return strconv.FormatFloat(v, 'g', 10, 64) }
@@ -36,7 +37,7 @@ func WriteCandidates(w io.Writer, cands []Candidate) error {
 			thick = fmtG(c.Thickness)
 		}
 		row := []string{fmtG(c.T0), fmtG(c.Stat), fmtG(c.N[0]), fmtG(c.N[1]), fmtG(c.N[2]),
-			fmtG(c.Speed), thick, fmtG(c.Amplitude), c.Coupling}
+			fmtG(c.Speed), thick, fmtG(c.Amplitude), c.Coupling, fmtG(c.SweepChi2)}
 		for i, s := range row {
 			if i > 0 {
 				bw.WriteByte(',')

@@ -2,6 +2,7 @@ package search
 
 import (
 	"math"
+	"slices"
 	"sync"
 )
 
@@ -797,6 +798,102 @@ func (s *searcher) evalOne(w *worker, ser *series, d, vi, th, cl, m int) (num, d
 	kt := &s.kern[vi][th]
 	num, qtot := s.accumulate(w, ser, kt, cl, 0, base)
 	return num, s.denominator(w, base, 0, 2*s.half, qtot)
+}
+
+// sweepFit splits template (direction d, speed vi, thickness th, coupling
+// cl) at grid point m into its clock-by-clock part u_o (each data clock's
+// own kernel) and its reference part u_r (the reference's kernel, with
+// opposite sign in every present series) and fits both amplitudes jointly
+// on ser by weighted least squares under C: with N_ab = u_aᵀC⁻¹u_b and
+// b_a = u_aᵀC⁻¹y, â = N⁻¹b, and χ² = (â_o − â_r)²/([1, −1]N⁻¹[1, −1]ᵀ).
+// Per interval e, with Q = Σ m_j g_j², G = Σ m_j g_j over the present
+// clocks and R the reference kernel (Sherman–Morrison, as in the scan):
+// N_oo = Σ Q − γG², N_or = −Σ R·G·(1 − γW), N_rr = Σ R²·(W − γW²); their
+// sum is the scan's denominator. It returns NaNs when either part is
+// empty or the system is singular.
+func (s *searcher) sweepFit(w *worker, ser *series, d, vi, th, cl, m int) (own, ref, chi2 float64) {
+	nan := math.NaN()
+	if !s.hasRef {
+		return nan, nan, nan
+	}
+	n := s.dirs[d]
+	invStep, invV := 1/s.step, 1/s.cfg.Speeds[vi]
+	lastX := float64(s.nEpoch-1) - 1e-9
+	t0 := s.t0(m)
+	k0 := min(int(t0*invStep+0.5), s.nEpoch-1)
+	kt := &s.kern[vi][th]
+	kc := s.k[cl]
+	type sums struct{ q, g, r float64 }
+	per := map[int]*sums{}
+	at := func(e int) *sums {
+		a := per[e]
+		if a == nil {
+			a = &sums{}
+			per[e] = a
+		}
+		return a
+	}
+	var bo, br float64
+	for c := range s.nScan() {
+		K := kc[c]
+		if K == 0 {
+			continue
+		}
+		p, pos := w.proj[c], s.pos[c]
+		for k := range p {
+			r := &pos[k]
+			p[k] = n[0]*r[0] + n[1]*r[1] + n[2]*r[2]
+		}
+		x := crossing(p, k0, t0, invV, invStep, lastX)
+		fi := floorInt(x)
+		ph := 0
+		if kt.phase > 1 {
+			ph = min(int((x-float64(fi))*phaseBins), phaseBins-1)
+		}
+		row := kt.vals[ph*kt.n : (ph+1)*kt.n]
+		for j, gv := range row {
+			e := fi + kt.lo + j
+			if uint(e) >= uint(s.nInt) {
+				continue
+			}
+			g := K * gv
+			if c == s.nData { // the reference
+				br += g * ser.zr[e]
+				at(e).r += g
+				continue
+			}
+			mw := ser.zm[e*ser.nd+c].m
+			if mw == 0 {
+				continue
+			}
+			bo += g * ser.zm[e*ser.nd+c].z
+			a := at(e)
+			a.q += mw * g * g
+			a.g += mw * g
+		}
+	}
+	var noo, nor, nrr float64
+	es := make([]int, 0, len(per))
+	for e := range per {
+		es = append(es, e)
+	}
+	slices.Sort(es) // a fixed order of summation: the same bits every run
+	for _, e := range es {
+		a := per[e]
+		W, gm := s.prep.w[e], s.prep.gamma[e]
+		noo += a.q - gm*a.g*a.g
+		nor -= a.r * a.g * (1 - gm*W)
+		nrr += a.r * a.r * (W - gm*W*W)
+	}
+	det := noo*nrr - nor*nor
+	if !(noo > 0) || !(nrr > 0) || !(det > 1e-12*noo*nrr) {
+		return nan, nan, nan
+	}
+	// N⁻¹ = [nrr, −nor; −nor, noo]/det.
+	own = (nrr*bo - nor*br) / det
+	ref = (noo*br - nor*bo) / det
+	v := (nrr + 2*nor + noo) / det
+	return own, ref, (own - ref) * (own - ref) / v
 }
 
 // accumulate adds every scan clock's template (kernel kt, coupling cl) at

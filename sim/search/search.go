@@ -25,6 +25,17 @@ type Candidate struct {
 	T0   float64 // s since the first epoch: the wall passes the geocentre
 	Stat float64 // |SNR|, larger is more significant
 	Template
+	// Sweep consistency. The template is the sum of its clock-by-clock
+	// part (each clock's own crossing) and its reference part (the
+	// reference clock's crossing, seen with opposite sign in every
+	// series). A wall gives both parts the same amplitude; a step of the
+	// reference clock itself (a phase jump) gives every series the same
+	// step at one instant and loads the reference part alone. OwnAmp and
+	// RefAmp are the two amplitudes fitted jointly, SweepChi2 is
+	// (OwnAmp − RefAmp)²/Var(OwnAmp − RefAmp), χ² with one degree of
+	// freedom for a wall that matches the template (NaN when either part
+	// is empty, e.g. the reference's crossing lies outside the data).
+	OwnAmp, RefAmp, SweepChi2 float64
 }
 
 // Result is the outcome of a search.
@@ -36,6 +47,9 @@ type Result struct {
 	// Best[m] is the template that reached it (zero Template if none).
 	Best       []Template
 	Candidates []Candidate // clustered, in time order
+	// Vetoed lists the clustered candidates dropped by the sweep veto
+	// (Config.SweepVeto), in time order.
+	Vetoed     []Candidate
 	Noise      NoiseModel
 	Directions [][3]float64
 	Config     Config  // the settings used, defaults filled in
@@ -180,7 +194,17 @@ func Search(net *Network, cfg Config) (*Result, error) {
 		if num, den := s.evalOne(w, &s.prep.raw, d, vi, th, cl, m); den > 0 {
 			c.Amplitude = num / den
 		}
+		c.OwnAmp, c.RefAmp, c.SweepChi2 = s.sweepFit(w, &s.prep.data, d, vi, th, cl, m)
 	}
+	kept := res.Candidates[:0:0]
+	for _, c := range res.Candidates {
+		if s.cfg.SweepVeto > 0 && c.SweepChi2 > s.cfg.SweepVeto && math.Abs(c.OwnAmp) < 0.5*math.Abs(c.RefAmp) {
+			res.Vetoed = append(res.Vetoed, c)
+			continue
+		}
+		kept = append(kept, c)
+	}
+	res.Candidates = kept
 	return res, nil
 }
 
