@@ -114,8 +114,8 @@ func (m ClockModel) Validate() error {
 // order (n standard normals per non-zero term, in Term order, two normals
 // from each rng.Uint64() by the ziggurat method plus the rare extra draws
 // of its wedge and tail steps, see fillNormal), so the same seed gives the
-// same series, on every CPU (internal/fft's vector kernels repeat the
-// operations of its Go loops exactly).
+// same series, with a given binary on every CPU (internal/fft's vector
+// kernels repeat the operations of its Go loops exactly).
 //
 // Method: white PM as white phase; white FM and random-walk FM by exact
 // summation of white frequency; flicker PM (on phase) and flicker FM (on

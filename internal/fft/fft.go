@@ -271,6 +271,15 @@ func mulI(z complex128) complex128 { return complex(-imag(z), real(z)) }
 
 func conj(z complex128) complex128 { return complex(real(z), -imag(z)) }
 
+// cmul is the complex product a·b with every real product rounded on its
+// own (the explicit conversions forbid fused multiply-adds, which the
+// compiler may otherwise use, e.g. with GOAMD64=v3), the arithmetic of the
+// vector kernels.
+func cmul(a, b complex128) complex128 {
+	return complex(float64(real(a)*real(b))-float64(imag(a)*imag(b)),
+		float64(real(a)*imag(b))+float64(imag(a)*real(b)))
+}
+
 // twChunk holds the twiddles of one chunk of 256 butterflies of a large
 // stage, for the Go loops (w) and in the vector layout (tv).
 type twChunk struct {
@@ -302,12 +311,12 @@ func (p *Plan) genTw(tc *twChunk, s, j0 int, forward bool) {
 	if forward {
 		for t := range w {
 			f := &fine[t]
-			w[t] = [3]complex128{b1 * f[0], b2 * f[1], b3 * f[2]}
+			w[t] = [3]complex128{cmul(b1, f[0]), cmul(b2, f[1]), cmul(b3, f[2])}
 		}
 	} else {
 		for t := range w {
 			f := &fine[t]
-			w[t] = [3]complex128{b1 * conj(f[0]), b2 * conj(f[1]), b3 * conj(f[2])}
+			w[t] = [3]complex128{cmul(b1, conj(f[0])), cmul(b2, conj(f[1])), cmul(b3, conj(f[2]))}
 		}
 	}
 }
@@ -394,9 +403,9 @@ func difGo(x0, x1, x2, x3 []complex128, w *[chunk][3]complex128) {
 		t0, t1 := a0+a2, a0-a2
 		t2, t3 := a1+a3, mulNegI(a1-a3)
 		x0[t] = t0 + t2
-		x1[t] = (t0 - t2) * w2
-		x2[t] = (t1 + t3) * w1
-		x3[t] = (t1 - t3) * w3
+		x1[t] = cmul(t0-t2, w2)
+		x2[t] = cmul(t1+t3, w1)
+		x3[t] = cmul(t1-t3, w3)
 	}
 }
 
@@ -408,9 +417,9 @@ func difHalfZeroGo(x0, x1, x2, x3 []complex128, w *[chunk][3]complex128) {
 		a0, a1 := x0[t], x1[t]
 		ia1 := mulNegI(a1)
 		x0[t] = a0 + a1
-		x1[t] = (a0 - a1) * w2
-		x2[t] = (a0 + ia1) * w1
-		x3[t] = (a0 - ia1) * w3
+		x1[t] = cmul(a0-a1, w2)
+		x2[t] = cmul(a0+ia1, w1)
+		x3[t] = cmul(a0-ia1, w3)
 	}
 }
 
@@ -421,9 +430,9 @@ func ditGo(x0, x1, x2, x3 []complex128, w *[chunk][3]complex128, full bool) {
 	for t := range x0 {
 		w1, w2, w3 := w[t][0], w[t][1], w[t][2]
 		c0 := x0[t]
-		c1 := x2[t] * w1
-		c2 := x1[t] * w2
-		c3 := x3[t] * w3
+		c1 := cmul(x2[t], w1)
+		c2 := cmul(x1[t], w2)
+		c3 := cmul(x3[t], w3)
 		t0, t1 := c0+c2, c0-c2
 		t2, t3 := c1+c3, mulI(c1-c3)
 		x0[t] = t0 + t2
@@ -459,9 +468,9 @@ func (p *Plan) difLeaf(x []complex128) {
 				t0, t1 := a0+a2, a0-a2
 				t2, t3 := a1+a3, mulNegI(a1-a3)
 				x0[j] = t0 + t2
-				x1[j] = (t0 - t2) * w2
-				x2[j] = (t1 + t3) * w1
-				x3[j] = (t1 - t3) * w3
+				x1[j] = cmul(t0-t2, w2)
+				x2[j] = cmul(t1+t3, w1)
+				x3[j] = cmul(t1-t3, w3)
 			}
 		}
 	}
@@ -532,9 +541,9 @@ func (p *Plan) ditLeaf(x []complex128) {
 			for j := range x0 {
 				w1, w2, w3 := conj(tw[j][0]), conj(tw[j][1]), conj(tw[j][2])
 				c0 := x0[j]
-				c1 := x2[j] * w1
-				c2 := x1[j] * w2
-				c3 := x3[j] * w3
+				c1 := cmul(x2[j], w1)
+				c2 := cmul(x1[j], w2)
+				c3 := cmul(x3[j], w3)
 				t0, t1 := c0+c2, c0-c2
 				t2, t3 := c1+c3, mulI(c1-c3)
 				x0[j] = t0 + t2
