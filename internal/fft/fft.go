@@ -63,7 +63,8 @@ type Plan struct {
 var plans sync.Map // int → *Plan
 
 // NewPlan returns the plan for length n, a power of two ≥ 1. Plans are
-// small (about 64 KiB at most) and cached process-wide.
+// small (twiddle tables of under 1 MiB even at n = 2^24) and cached
+// process-wide.
 func NewPlan(n int) *Plan {
 	if n < 1 || n&(n-1) != 0 {
 		panic(fmt.Sprintf("fft: length %d is not a power of two", n))
