@@ -126,6 +126,7 @@ type worker struct {
 	qlane, glane, rlane []float64
 	dlane               []float64 // [maxSub] per-lane denominator terms
 	dirty               []bool    // [row] row has per-element G or R entries
+	refRow              []bool    // [row] row has per-element R entries
 	sink                float64   // keeps warm's loads
 	blk                 int       // index of the block being scanned (m0/blockLen)
 	best                []float64 // per t0: largest |ρ|
@@ -152,7 +153,7 @@ func (s *searcher) newWorker() *worker {
 	w.bnum, w.bden, w.bq = make([]float64, blockLen), make([]float64, blockLen), make([]float64, blockLen)
 	w.bg, w.br = make([]float64, blockLen*b), make([]float64, blockLen*b)
 	w.qlane, w.glane, w.rlane = make([]float64, maxSub), make([]float64, maxSub*b), make([]float64, maxSub*b)
-	w.dlane, w.dirty = make([]float64, maxSub), make([]bool, b)
+	w.dlane, w.dirty, w.refRow = make([]float64, maxSub), make([]bool, b), make([]bool, b)
 	w.best = make([]float64, s.nT0)
 	w.bestID = make([]int, s.nT0)
 	w.bestNum = make([]float64, s.nT0)
@@ -379,6 +380,48 @@ func (s *searcher) lanes(dl []int32, rl []float64, lo, hi float64) bool {
 		dl[l] = int32(f1)
 	}
 	return true
+}
+
+// denConstW finishes thinBlock's denominators when W and γ are the same
+// over every interval the block's rows touch: per row and lane, the
+// lane constants alone add one number per lane; per-element rows add
+// R²W − 2RG − γ(G − RW)² at every grid point (−γG² where the row has no
+// reference entry).
+func (s *searcher) denConstW(w *worker, nb, rowLo, rowHi int, W, gm float64) {
+	S := s.cfg.T0Substeps
+	nl := min(S, nb)
+	den, dlane := w.bden[:nb], w.dlane[:nl]
+	for row := rowLo; row <= rowHi; row++ {
+		g, r := w.bg[row*blockLen:row*blockLen+nb], w.br[row*blockLen:row*blockLen+nb]
+		gl, rl := w.glane[row*maxSub:row*maxSub+nl], w.rlane[row*maxSub:row*maxSub+nl]
+		dr, hr := w.dirty[row], w.refRow[row]
+		w.dirty[row], w.refRow[row] = false, false
+		for l := range gl {
+			gc, rc := gl[l], rl[l]
+			gl[l], rl[l] = 0, 0
+			switch {
+			case !dr:
+				u := gc - rc*W
+				dlane[l] += rc*rc*W - 2*rc*gc - gm*u*u
+			case !hr && rc == 0 && S == 1:
+				for mm, gv := range g {
+					gb := gv + gc
+					den[mm] -= gm * gb * gb
+				}
+				clear(g)
+			default:
+				for mm := l; mm < nb; mm += S {
+					gb, rb := g[mm]+gc, r[mm]+rc
+					g[mm], r[mm] = 0, 0
+					u := gb - rb*W
+					den[mm] += rb*rb*W - 2*rb*gb - gm*u*u
+				}
+			}
+		}
+	}
+	for mm := range den {
+		den[mm] += dlane[mm%S]
+	}
 }
 
 // thinElements adds one data clock's thin-wall terms (sensitivity K/τ0,
@@ -669,7 +712,7 @@ func (s *searcher) thinBlock(w *worker, cl, nb int) {
 						}
 						continue
 					}
-					dirty[row] = true
+					dirty[row], w.refRow[row] = true, true
 					r := R[row*blockLen : row*blockLen+nb]
 					if i < 0 {
 						mm += -i * S
@@ -686,7 +729,7 @@ func (s *searcher) thinBlock(w *worker, cl, nb int) {
 					i := int(i32)
 					if row := i - base[mm] + s.half; uint(i) < uint(nInt) && uint(row) < uint(B) {
 						rowLo, rowHi = min(rowLo, row), max(rowHi, row)
-						dirty[row] = true
+						dirty[row], w.refRow[row] = true, true
 						num[mm] += K * ser.zr[i]
 						R[row*blockLen+mm] += K
 					}
@@ -707,11 +750,21 @@ func (s *searcher) thinBlock(w *worker, cl, nb int) {
 	dlane := w.dlane[:nl]
 	clear(dlane)
 	pr := s.prep
+	// Most blocks see one W and γ over every interval they touch (no clock
+	// has a gap there): the rows then take a loop without per-interval
+	// look-ups.
+	if rowLo <= rowHi {
+		eLo, eHi := base[0]-s.half+rowLo, base[nb-1]-s.half+rowHi
+		if eLo >= 0 && eHi < nInt && pr.wrun[eLo] == pr.wrun[eHi] {
+			s.denConstW(w, nb, rowLo, rowHi, pr.w[eLo], pr.gamma[eLo])
+			return
+		}
+	}
 	for row := rowLo; row <= rowHi; row++ {
 		g, r := G[row*blockLen:row*blockLen+nb], R[row*blockLen:row*blockLen+nb]
 		gl, rl := w.glane[row*maxSub:row*maxSub+nl], w.rlane[row*maxSub:row*maxSub+nl]
 		dr := dirty[row]
-		dirty[row] = false
+		dirty[row], w.refRow[row] = false, false
 		for l := range gl {
 			gc, rc := gl[l], rl[l]
 			gl[l], rl[l] = 0, 0
