@@ -115,6 +115,7 @@ type worker struct {
 	// crossing at the first grid point of block nodeBlk[speed] − 1 + k.
 	nodes   []float64
 	nodeBlk []int     // [speed] (−2: none)
+	xg      []float64 // [scan clock] first guesses (solveNode)
 	g, r    []float64 // per-t0 interval buffers: Σ m·K·g, reference K·g
 	// Per-block results and the thin-wall block buffers.
 	bnum, bden, bq []float64 // [blockLen] numerator, denominator, Σ m·(K·g)²
@@ -145,7 +146,7 @@ func (s *searcher) newWorker() *worker {
 		w.proj[c] = make([]float64, s.nEpoch)
 	}
 	w.uni, w.dl, w.base, w.rl = make([]bool, n), make([]int32, n*maxSub), make([]int, blockLen), make([]float64, maxSub)
-	w.nodes, w.nodeBlk = make([]float64, len(s.cfg.Speeds)*n*4), make([]int, len(s.cfg.Speeds))
+	w.nodes, w.nodeBlk, w.xg = make([]float64, len(s.cfg.Speeds)*n*4), make([]int, len(s.cfg.Speeds)), make([]float64, n)
 	w.resetCrossings()
 	w.baseM = -1
 	b := 2*s.half + 1
@@ -208,6 +209,35 @@ func crossing(p []float64, k0 int, t0, invV, invStep, lastX float64) float64 {
 	return x - f/(1-dp*invV*invStep)
 }
 
+// solveNode sets out[4c] to the exact crossing (crossing) of every scan
+// clock c at node j, the first grid point of block j, at 1/v = invV. It
+// runs the first guesses of all clocks, then all Newton steps: each
+// solve is a chain of dependent loads and a division, and two short
+// independent loops let the processor overlap the clocks' chains.
+func (s *searcher) solveNode(w *worker, out []float64, j int, invV float64) {
+	invStep := 1 / s.step
+	lastX := float64(s.nEpoch-1) - 1e-9
+	t0 := float64(s.m0+j*blockLen) * s.dt0
+	k0 := max(0, min(int(t0*invStep+0.5), s.nEpoch-1))
+	ns := s.nScan()
+	xg := w.xg[:ns]
+	for c := range xg {
+		xg[c] = (t0 + w.proj[c][k0]*invV) * invStep
+	}
+	for c, x := range xg {
+		p := w.proj[c]
+		i := 0
+		if x > 0 {
+			i = min(int(x), int(lastX))
+		}
+		fr := x - float64(i)
+		p0 := p[i]
+		dp := p[i+1] - p0
+		f := x - (t0+(p0+fr*dp)*invV)*invStep
+		out[4*c] = x - f/(1-dp*invV*invStep)
+	}
+}
+
 // laneEps is the margin, in intervals, by which a block's lag range must
 // clear an interval boundary for the lane form: far above the round-off of
 // the per-element evaluation and the 2⁻²² resolution of floorInt.
@@ -244,11 +274,6 @@ func (s *searcher) blockCrossings(w *worker, m0, nb, vi int, invV float64, needC
 		}
 		w.baseM = M
 	}
-	solve := func(p []float64, j int) float64 {
-		t0 := float64(s.m0+j*blockLen) * s.dt0
-		k0 := max(0, min(int(t0*invStep+0.5), s.nEpoch-1))
-		return crossing(p, k0, t0, invV, invStep, lastX)
-	}
 	ns := s.nScan()
 	blk := m0 / blockLen
 	nodes := w.nodes[vi*ns*4 : (vi+1)*ns*4]
@@ -257,14 +282,12 @@ func (s *searcher) blockCrossings(w *worker, m0, nb, vi int, invV float64, needC
 	if shift {
 		for c := range ns {
 			y := nodes[c*4 : c*4+4]
-			y[0], y[1], y[2], y[3] = y[1], y[2], y[3], solve(w.proj[c], blk+2)
+			y[0], y[1], y[2] = y[1], y[2], y[3]
 		}
+		s.solveNode(w, nodes[3:], blk+2, invV)
 	} else {
-		for c := range ns {
-			y := nodes[c*4 : c*4+4]
-			for k := range y {
-				y[k] = solve(w.proj[c], blk-1+k)
-			}
+		for k := range 4 {
+			s.solveNode(w, nodes[k:], blk-1+k, invV)
 		}
 	}
 	keep := w.keepX
