@@ -285,6 +285,9 @@ func TestOptimalSNR(t *testing.T) {
 	// One trial (same geometry and noise draws) at every step of the grid.
 	var snr, step []float64
 	for ci := range p.Cells {
+		if raceEnabled && ci != 0 && ci != len(p.Cells)-1 {
+			continue // the smallest and largest step only
+		}
 		tr := p.Trial(0)
 		tr.Cell = p.Cells[ci]
 		o, err := r.RunTrial(context.Background(), tr)

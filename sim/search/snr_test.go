@@ -17,7 +17,11 @@ func TestSignalSNR(t *testing.T) {
 	o := defaultSynth()
 	o.gapFrac = 0.01
 	var diff, opt []float64
-	for trial := range 4 {
+	trials := 4
+	if raceEnabled {
+		trials = 2
+	}
+	for trial := range trials {
 		rng := rand.New(rand.NewPCG(41, uint64(trial)))
 		sn, phase := newSynth(rng, o)
 		n := randomUnit(rng)
