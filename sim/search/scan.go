@@ -130,7 +130,7 @@ type worker struct {
 	refRow              []bool    // [row] row has per-element R entries
 	sink                float64   // keeps warm's loads
 	blk                 int       // index of the block being scanned (m0/blockLen)
-	best                []float64 // per t0: largest |ρ|
+	best                []float64 // per t0: largest ρ² (its |ρ| after run)
 	bestID              []int     // per t0: its template id (−1: none)
 	bestNum             []float64 // per t0: its numerator
 	bestDen             []float64 // per t0: its denominator
@@ -545,12 +545,13 @@ func (s *searcher) scanDirection(w *worker, d int) {
 							w.visit(m, id, num, den)
 							continue
 						}
-						stat := math.Abs(num) / math.Sqrt(den)
-						if !(den > 0) || math.IsNaN(stat) {
+						// Ranked by ρ² = num²/den (no square root per template).
+						q := num * num / den
+						if !(den > 0) || q != q {
 							continue
 						}
-						if better(stat, id, w.best[m], w.bestID[m]) {
-							w.best[m], w.bestID[m] = stat, id
+						if better(q, id, w.best[m], w.bestID[m]) {
+							w.best[m], w.bestID[m] = q, id
 							w.bestNum[m], w.bestDen[m] = num, den
 						}
 					}

@@ -181,6 +181,7 @@ func Search(net *Network, cfg Config) (*Result, error) {
 			res.Stat[m] = 0
 			continue
 		}
+		res.Stat[m] = math.Sqrt(w.best[m]) // ranked by ρ² in the scan
 		res.Best[m] = s.template(id, w.bestNum[m], w.bestDen[m])
 	}
 	res.Candidates = Cluster(res.Stat, res.Best, res.T0First, s.dt0, s.cfg.Threshold, s.cfg.ClusterWindow)
