@@ -12,17 +12,21 @@ import (
 // same crossing interval at every grid point, and the statistic's
 // numerators and denominators agree with the per-element path (forced by
 // worker.perElement) for thin walls, with gaps, the reference clock's own
-// crossing and 1, 2 and 3 t0 points per interval.
+// crossing, 1, 2 and 3 t0 points per interval and a t0 window.
 func TestLaneFormMatchesPerElement(t *testing.T) {
-	for _, sub := range []int{1, 2, 3} {
-		t.Run(fmt.Sprintf("sub%d", sub), func(t *testing.T) {
+	for _, tc := range []struct {
+		sub    int
+		window [2]float64
+	}{{1, [2]float64{}}, {2, [2]float64{}}, {3, [2]float64{}}, {2, [2]float64{1234, 9876}}} {
+		sub := tc.sub
+		t.Run(fmt.Sprintf("sub%d-window%g", sub, tc.window[0]), func(t *testing.T) {
 			rng := rand.New(rand.NewPCG(31, uint64(sub)))
 			o := synthOpts{planes: 4, perPlane: 3, stations: 10, epochs: 400, step: 30,
 				sigmaSat: 1e-12, sigmaSta: 7e-13, sigmaRef: 5e-13, gapFrac: 0.02}
 			sn, phase := newSynth(rng, o)
 			sn.finish(rng, o, phase)
 			cfg := Config{Directions: 40, Speeds: []float64{150e3, 300e3, 700e3}, Thicknesses: []float64{0},
-				Couplings: []string{CouplingEff, "alpha"}, T0Substeps: sub}
+				Couplings: []string{CouplingEff, "alpha"}, T0Substeps: sub, T0Window: tc.window}
 			s, err := newSearcher(sn.net, cfg)
 			if err != nil {
 				t.Fatal(err)

@@ -112,23 +112,26 @@ func TestBlockCrossingsAgainstInject(t *testing.T) {
 func TestStatisticAgainstDense(t *testing.T) {
 	// With gaps (W and γ change from interval to interval) and without
 	// (the thin scan's constant-W path), at two and one t0 per interval.
+	// And with a t0 window that does not start at the first epoch.
 	for _, tc := range []struct {
-		name string
-		gaps float64
-		sub  int
-	}{{"gaps-sub2", 0.05, 2}, {"nogaps-sub1", 0, 1}, {"nogaps-sub2", 0, 2}} {
-		t.Run(tc.name, func(t *testing.T) { statisticAgainstDense(t, tc.gaps, tc.sub) })
+		name   string
+		gaps   float64
+		sub    int
+		window [2]float64
+	}{{"gaps-sub2", 0.05, 2, [2]float64{}}, {"nogaps-sub1", 0, 1, [2]float64{}}, {"nogaps-sub2", 0, 2, [2]float64{}},
+		{"nogaps-sub1-window", 0, 1, [2]float64{500, 2000}}} {
+		t.Run(tc.name, func(t *testing.T) { statisticAgainstDense(t, tc.gaps, tc.sub, tc.window) })
 	}
 }
 
-func statisticAgainstDense(t *testing.T, gaps float64, sub int) {
+func statisticAgainstDense(t *testing.T, gaps float64, sub int, window [2]float64) {
 	rng := rand.New(rand.NewPCG(21, 22))
 	o := synthOpts{planes: 2, perPlane: 3, stations: 4, epochs: 80, step: 30,
 		sigmaSat: 1e-12, sigmaSta: 7e-13, sigmaRef: 5e-13, gapFrac: gaps}
 	sn, phase := newSynth(rng, o)
 	sn.finish(rng, o, phase)
 	cfg := Config{Directions: 5, Speeds: []float64{200e3, 450e3}, Thicknesses: []float64{0, 1.5e7},
-		Couplings: []string{CouplingEff, "alpha"}, T0Substeps: sub, Clip: -1}
+		Couplings: []string{CouplingEff, "alpha"}, T0Substeps: sub, Clip: -1, T0Window: window}
 	s, err := newSearcher(sn.net, cfg)
 	if err != nil {
 		t.Fatal(err)
