@@ -54,11 +54,11 @@ func TestLaneFormMatchesPerElement(t *testing.T) {
 								continue
 							}
 							nLane++
-							for mm := range nb {
-								want := int(w.ci[c*blockLen+mm])
-								got := w.base[mm] + int(w.dl[c*maxSub+mm%sub])
-								if got != want {
-									t.Fatalf("dir %d block %d speed %g clock %d point %d: lane form gives interval %d, per element %d", d, m0, v, c, mm, got, want)
+							for j := range nb { // by position (lane-major)
+								want := int(w.ci[c*blockLen+j])
+								got := w.base[j] + int(w.dl[c*maxSub+int(w.jlane[j])])
+								if got != want || w.jmm[j]%sub != int(w.jlane[j]) {
+									t.Fatalf("dir %d block %d speed %g clock %d point %d: lane form gives interval %d, per element %d", d, m0, v, c, w.jmm[j], got, want)
 								}
 							}
 						}

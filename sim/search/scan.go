@@ -105,11 +105,22 @@ type worker struct {
 	// lane is mm mod S. When uni[c], clock c's crossing interval is
 	// base[mm] + dl[c·maxSub + mm mod S] for every mm of the block: the lag
 	// in whole intervals is constant along each lane.
-	uni   []bool
-	dl    []int32
-	base  []int     // [blockLen]
-	baseM int       // the global grid index base was filled for (−1: none)
-	rl    []float64 // [maxSub] lane offsets within the interval
+	uni []bool
+	dl  []int32
+	// Positions. Within a block the grid points are kept lane by lane
+	// (lane-major): position j holds grid point jmm[j], lane l holds
+	// positions [lane0[l], lane0[l+1]) in increasing t0, and jof inverts
+	// jmm. With one t0 per interval, j = mm. base, ci, ph and x are by
+	// position.
+	jmm, jof []int
+	jlane    []uint8
+	lane0    []int // [maxSub + 1]
+	layoutNb int   // nb the layout was made for (0: none)
+	pnum     []float64
+	pden     []float64
+	base     []int     // [blockLen]
+	baseM    int       // the global grid index base was filled for (−1: none)
+	rl       []float64 // [maxSub] lane offsets within the interval
 	// Interpolation nodes of the crossing times (blockCrossings), kept from
 	// block to block: nodes[(speed·scan clocks + c)·4 + k] is the exact
 	// crossing at the first grid point of block nodeBlk[speed] − 1 + k.
@@ -146,6 +157,8 @@ func (s *searcher) newWorker() *worker {
 		w.proj[c] = make([]float64, s.nEpoch)
 	}
 	w.uni, w.dl, w.base, w.rl = make([]bool, n), make([]int32, n*maxSub), make([]int, blockLen), make([]float64, maxSub)
+	w.jmm, w.jof, w.jlane, w.lane0 = make([]int, blockLen), make([]int, blockLen), make([]uint8, blockLen), make([]int, maxSub+1)
+	w.pnum, w.pden = make([]float64, blockLen), make([]float64, blockLen)
 	w.nodes, w.nodeBlk, w.xg = make([]float64, len(s.cfg.Speeds)*n*4), make([]int, len(s.cfg.Speeds)), make([]float64, n)
 	w.resetCrossings()
 	w.baseM = -1
@@ -268,9 +281,13 @@ func (s *searcher) blockCrossings(w *worker, m0, nb, vi int, invV float64, needC
 	lastX := float64(s.nEpoch-1) - 1e-9
 	S := s.cfg.T0Substeps
 	M := s.m0 + m0 // global grid index of the block's first point
+	if w.layoutNb != nb {
+		w.layout(nb, S)
+		w.baseM = -1
+	}
 	if w.baseM != M {
-		for mm := range nb {
-			w.base[mm] = (M + mm) / S
+		for j, mm := range w.jmm[:nb] {
+			w.base[j] = (M + mm) / S
 		}
 		w.baseM = M
 	}
@@ -375,19 +392,35 @@ func (s *searcher) blockCrossings(w *worker, m0, nb, vi int, invV float64, needC
 		ci := w.ci[c*blockLen : c*blockLen+nb]
 		ph := w.ph[c*blockLen : c*blockLen+nb]
 		xs := w.x[c*blockLen : c*blockLen+nb] // kept for tests only (w.keepX)
-		for mm := range ci {
+		for j, mm := range w.jmm[:nb] {
 			u := float64(mm) * scale
 			x := c0 + u*(c1+u*(c2+u*c3))
 			if keep {
-				xs[mm] = x
+				xs[j] = x
 			}
 			fi := floorInt(x)
-			ci[mm] = int32(fi)
+			ci[j] = int32(fi)
 			if s.phased {
-				ph[mm] = uint8(min(int((x-float64(fi))*phaseBins), phaseBins-1))
+				ph[j] = uint8(min(int((x-float64(fi))*phaseBins), phaseBins-1))
 			}
 		}
 	}
+}
+
+// layout fills the lane-major positions of a block of nb grid points with
+// S points per interval (worker.jmm).
+func (w *worker) layout(nb, S int) {
+	j := 0
+	nl := min(S, nb)
+	for l := range nl {
+		w.lane0[l] = j
+		for mm := l; mm < nb; mm += S {
+			w.jmm[j], w.jof[mm], w.jlane[j] = mm, j, uint8(l)
+			j++
+		}
+	}
+	w.lane0[nl] = j
+	w.layoutNb = nb
 }
 
 // lanes reports whether, for a lag range [lo, hi] (intervals), every lane
@@ -405,15 +438,15 @@ func (s *searcher) lanes(dl []int32, rl []float64, lo, hi float64) bool {
 	return true
 }
 
-// denConstW finishes thinBlock's denominators when W and γ are the same
-// over every interval the block's rows touch: per row and lane, the
-// lane constants alone add one number per lane; per-element rows add
-// R²W − 2RG − γ(G − RW)² at every grid point (−γG² where the row has no
-// reference entry).
+// denConstW finishes thinBlock's denominators (by position) when W and γ
+// are the same over every interval the block's rows touch: per row and
+// lane, the lane constants alone add one number per lane; per-element
+// rows add R²W − 2RG − γ(G − RW)² at every grid point (−γG² where the row
+// has no reference entry).
 func (s *searcher) denConstW(w *worker, nb, rowLo, rowHi int, W, gm float64) {
 	S := s.cfg.T0Substeps
 	nl := min(S, nb)
-	den, dlane := w.bden[:nb], w.dlane[:nl]
+	den, dlane := w.pden[:nb], w.dlane[:nl]
 	for row := rowLo; row <= rowHi; row++ {
 		g, r := w.bg[row*blockLen:row*blockLen+nb], w.br[row*blockLen:row*blockLen+nb]
 		gl, rl := w.glane[row*maxSub:row*maxSub+nl], w.rlane[row*maxSub:row*maxSub+nl]
@@ -422,49 +455,48 @@ func (s *searcher) denConstW(w *worker, nb, rowLo, rowHi int, W, gm float64) {
 		for l := range gl {
 			gc, rc := gl[l], rl[l]
 			gl[l], rl[l] = 0, 0
+			a, b := w.lane0[l], w.lane0[l+1]
 			switch {
 			case !dr:
 				u := gc - rc*W
 				dlane[l] += rc*rc*W - 2*rc*gc - gm*u*u
-			case !hr && rc == 0 && S == 1:
-				for mm, gv := range g {
+			case !hr && rc == 0:
+				gs, ds := g[a:b], den[a:b]
+				for j, gv := range gs {
 					gb := gv + gc
-					den[mm] -= gm * gb * gb
+					ds[j] -= gm * gb * gb
 				}
-				clear(g)
+				clear(gs)
 			default:
-				for mm := l; mm < nb; mm += S {
-					gb, rb := g[mm]+gc, r[mm]+rc
-					g[mm], r[mm] = 0, 0
+				for j := a; j < b; j++ {
+					gb, rb := g[j]+gc, r[j]+rc
+					g[j], r[j] = 0, 0
 					u := gb - rb*W
-					den[mm] += rb*rb*W - 2*rb*gb - gm*u*u
+					den[j] += rb*rb*W - 2*rb*gb - gm*u*u
 				}
 			}
 		}
 	}
-	for mm := range den {
-		den[mm] += dlane[mm%S]
-	}
 }
 
 // thinElements adds one data clock's thin-wall terms (sensitivity K/τ0,
-// data z and weights mw, crossing intervals ci) at the block's grid points
+// data z and weights mw, crossing intervals ci) at the block's positions
 // [a, b), one at a time, and returns the widened range of touched rows.
 func (s *searcher) thinElements(w *worker, z, mw []float64, ci []int32, K float64, a, b, rowLo, rowHi int) (int, int) {
 	nInt, B := s.nInt, 2*s.half+1
-	num, qt, base, G := w.bnum, w.bq, w.base, w.bg
-	for mm := a; mm < b; mm++ {
-		i := int(ci[mm])
+	num, qt, base, G := w.pnum, w.bq, w.base, w.bg
+	for j := a; j < b; j++ {
+		i := int(ci[j])
 		if uint(i) >= uint(nInt) {
 			continue
 		}
-		num[mm] += K * z[i]
+		num[j] += K * z[i]
 		mk := K * mw[i]
-		qt[mm] += mk * K
-		if row := i - base[mm] + s.half; uint(row) < uint(B) {
+		qt[j] += mk * K
+		if row := i - base[j] + s.half; uint(row) < uint(B) {
 			rowLo, rowHi = min(rowLo, row), max(rowHi, row)
 			w.dirty[row] = true
-			G[row*blockLen+mm] += mk
+			G[row*blockLen+j] += mk
 		}
 	}
 	return rowLo, rowHi
@@ -533,7 +565,7 @@ func (s *searcher) scanDirection(w *worker, d int) {
 					} else {
 						for mm := range nb {
 							base := floorInt(s.t0(m0+mm) * invStep)
-							num, qtot := s.accumulate(w, &s.prep.data, kt, cl, mm, base)
+							num, qtot := s.accumulate(w, &s.prep.data, kt, cl, w.jof[mm], base)
 							w.bnum[mm] = num
 							w.bden[mm] = s.denominator(w, base, blo, bhi, qtot)
 						}
@@ -604,9 +636,9 @@ func (s *searcher) warm(w *worker, m0, nb int) {
 // thinBlock evaluates the thin-wall template of coupling cl on the data
 // series (prep.data) at the nb grid points of the block (crossings in the
 // worker's table, see blockCrossings), leaving numerators and denominators
-// in w.bnum, w.bden.
-// The loop runs clock by clock over the block, so each clock's data are
-// read in order and the block's t0 accumulate independently (no
+// in w.bnum, w.bden (by grid point). It works by position (lane-major,
+// worker.jmm) and runs clock by clock over the block, so each clock's data
+// are read in order and the block's t0 accumulate independently (no
 // loop-carried dependency).
 //
 // For a clock in lane form the crossing interval steps by one along each
@@ -614,16 +646,18 @@ func (s *searcher) warm(w *worker, m0, nb int) {
 // the lane's intervals are all inside the data and present, its weight is
 // the clock's constant m = 1/σ², so its Q sum and its share of row G are
 // one number per lane (w.qlane, w.glane) and only the numerator is summed
-// per grid point: one multiply-add per clock and t0. Other lanes and
-// per-element clocks add Q and G per grid point.
+// per grid point: one contiguous multiply-add per clock and t0. Other
+// clocks are split into runs of one lag within each lane, summed the same
+// way, with Q and G per grid point.
 func (s *searcher) thinBlock(w *worker, cl, nb int) {
 	ser := &s.prep.data
 	nInt := s.nInt
 	B := 2*s.half + 1
 	S := s.cfg.T0Substeps
 	kg := s.kg[cl]
-	num, qt := w.bnum[:nb], w.bq[:nb]
+	num, qt := w.pnum[:nb], w.bq[:nb]
 	base := w.base[:nb]
+	lane0 := w.lane0
 	G, R := w.bg, w.br
 	clear(num)
 	clear(qt)
@@ -640,54 +674,49 @@ func (s *searcher) thinBlock(w *worker, cl, nb int) {
 			continue
 		}
 		z, mw := ser.zz[c], ser.mw[c]
+		miss, wK := ser.miss[c], K*ser.wc[c]
 		if w.uni[c] {
-			miss, wK := ser.miss[c], K*ser.wc[c]
 			full := full[c]
 			for l, d := range w.dl[c*maxSub : c*maxSub+nl] {
 				row := int(d) + s.half // inside the buffer (blockCrossings)
 				rowLo, rowHi = min(rowLo, row), max(rowHi, row)
-				// Lane l: mm = l + k·S, interval i = base[l] + d + k, k < n.
-				i := base[l] + int(d)
-				mm := l
-				n := (nb - l + S - 1) / S
+				// Lane l: positions [a, b), intervals i, i + 1, ….
+				a, b := lane0[l], lane0[l+1]
+				n := b - a
+				i := base[a] + int(d)
 				if full || i >= 0 && i+n <= nInt && miss[i+n] == miss[i] {
 					// Complete lane: constant weight.
 					qlane[l] += wK * K
 					w.glane[row*maxSub+l] += wK
-					if S == 1 {
-						axpy(num[:n], z[i:i+n], K)
-						continue
-					}
-					for ; mm < nb; mm, i = mm+S, i+1 {
-						num[mm] += K * z[i]
-					}
+					axpy(num[a:b], z[i:i+n], K)
 					continue
 				}
 				dirty[row] = true
 				g := G[row*blockLen : row*blockLen+nb]
+				j := a
 				if i < 0 { // skip to the first interval inside the data
-					mm += -i * S
+					j += -i
 					i = 0
 				}
-				for ; mm < nb && i < nInt; mm, i = mm+S, i+1 {
-					num[mm] += K * z[i]
+				for ; j < b && i < nInt; j, i = j+1, i+1 {
+					num[j] += K * z[i]
 					mk := K * mw[i]
-					qt[mm] += mk * K
-					g[mm] += mk
+					qt[j] += mk * K
+					g[j] += mk
 				}
 			}
 			continue
 		}
+		// Runs of one lag within each lane: contiguous sums, constant
+		// weight where the run's intervals are all present.
 		ci := w.ci[c*blockLen : c*blockLen+nb]
-		if S == 1 {
-			// Runs of one lag: contiguous sums, constant weight where the
-			// run's intervals are all present.
-			miss, wK := ser.miss[c], K*ser.wc[c]
-			for a := 0; a < nb; {
+		for l := range nl {
+			end := lane0[l+1]
+			for a := lane0[l]; a < end; {
 				i0 := int(ci[a])
 				d := i0 - base[a]
 				b := a + 1
-				for b < nb && int(ci[b])-base[b] == d {
+				for b < end && int(ci[b])-base[b] == d {
 					b++
 				}
 				n, row := b-a, d+s.half
@@ -709,15 +738,12 @@ func (s *searcher) thinBlock(w *worker, cl, nb int) {
 							g[k] += mk
 						}
 					}
-					a = b
-					continue
+				} else {
+					rowLo, rowHi = s.thinElements(w, z, mw, ci, K, a, b, rowLo, rowHi)
 				}
-				rowLo, rowHi = s.thinElements(w, z, mw, ci, K, a, b, rowLo, rowHi)
 				a = b
 			}
-			continue
 		}
-		rowLo, rowHi = s.thinElements(w, z, mw, ci, K, 0, nb, rowLo, rowHi)
 	}
 	if s.hasRef {
 		c := s.nData
@@ -726,36 +752,35 @@ func (s *searcher) thinBlock(w *worker, cl, nb int) {
 				for l, d := range w.dl[c*maxSub : c*maxSub+nl] {
 					row := int(d) + s.half
 					rowLo, rowHi = min(rowLo, row), max(rowHi, row)
-					i := base[l] + int(d)
-					mm := l
-					n := (nb - l + S - 1) / S
+					a, b := lane0[l], lane0[l+1]
+					n := b - a
+					i := base[a] + int(d)
 					if i >= 0 && i+n <= nInt {
 						w.rlane[row*maxSub+l] += K
-						for ; mm < nb; mm, i = mm+S, i+1 {
-							num[mm] += K * ser.zr[i]
-						}
+						axpy(num[a:b], ser.zr[i:i+n], K)
 						continue
 					}
 					dirty[row], w.refRow[row] = true, true
 					r := R[row*blockLen : row*blockLen+nb]
+					j := a
 					if i < 0 {
-						mm += -i * S
+						j += -i
 						i = 0
 					}
-					for ; mm < nb && i < nInt; mm, i = mm+S, i+1 {
-						num[mm] += K * ser.zr[i]
-						r[mm] += K
+					for ; j < b && i < nInt; j, i = j+1, i+1 {
+						num[j] += K * ser.zr[i]
+						r[j] += K
 					}
 				}
 			} else {
 				ci := w.ci[c*blockLen : c*blockLen+nb]
-				for mm, i32 := range ci {
+				for j, i32 := range ci {
 					i := int(i32)
-					if row := i - base[mm] + s.half; uint(i) < uint(nInt) && uint(row) < uint(B) {
+					if row := i - base[j] + s.half; uint(i) < uint(nInt) && uint(row) < uint(B) {
 						rowLo, rowHi = min(rowLo, row), max(rowHi, row)
 						dirty[row], w.refRow[row] = true, true
-						num[mm] += K * ser.zr[i]
-						R[row*blockLen+mm] += K
+						num[j] += K * ser.zr[i]
+						R[row*blockLen+j] += K
 					}
 				}
 			}
@@ -767,20 +792,24 @@ func (s *searcher) thinBlock(w *worker, cl, nb int) {
 	// the per-element rows plus the lane constants; untouched entries are
 	// zero and add nothing. A row with lane constants only, over intervals
 	// of one W and γ, adds one number per lane (dlane).
-	den := w.bden[:nb]
-	for mm := range den {
-		den[mm] = qt[mm] + qlane[mm%S]
+	den := w.pden[:nb]
+	for l := range nl {
+		for j := lane0[l]; j < lane0[l+1]; j++ {
+			den[j] = qt[j] + qlane[l]
+		}
 	}
 	dlane := w.dlane[:nl]
 	clear(dlane)
 	pr := s.prep
 	// Most blocks see one W and γ over every interval they touch (no clock
 	// has a gap there): the rows then take a loop without per-interval
-	// look-ups.
+	// look-ups. The block's intervals run from base[0] (lane 0's first) to
+	// the base of its last grid point.
 	if rowLo <= rowHi {
-		eLo, eHi := base[0]-s.half+rowLo, base[nb-1]-s.half+rowHi
+		eLo, eHi := base[0]-s.half+rowLo, base[w.jof[nb-1]]-s.half+rowHi
 		if eLo >= 0 && eHi < nInt && pr.wrun[eLo] == pr.wrun[eHi] {
 			s.denConstW(w, nb, rowLo, rowHi, pr.w[eLo], pr.gamma[eLo])
+			s.thinOut(w, nb)
 			return
 		}
 	}
@@ -792,12 +821,12 @@ func (s *searcher) thinBlock(w *worker, cl, nb int) {
 		for l := range gl {
 			gc, rc := gl[l], rl[l]
 			gl[l], rl[l] = 0, 0
+			a, b := lane0[l], lane0[l+1]
 			if !dr {
 				if gc == 0 && rc == 0 {
 					continue
 				}
-				last := l + (nb-1-l)/S*S
-				e0, e1 := base[l]-s.half+row, base[last]-s.half+row
+				e0, e1 := base[a]-s.half+row, base[b-1]-s.half+row
 				if e0 >= 0 && e1 < nInt && pr.wrun[e0] == pr.wrun[e1] {
 					W := pr.w[e0]
 					u := gc - rc*W
@@ -805,24 +834,32 @@ func (s *searcher) thinBlock(w *worker, cl, nb int) {
 					continue
 				}
 			}
-			for mm := l; mm < nb; mm += S {
-				gb, rb := g[mm]+gc, r[mm]+rc
+			for j := a; j < b; j++ {
+				gb, rb := g[j]+gc, r[j]+rc
 				if gb == 0 && rb == 0 {
 					continue
 				}
-				g[mm], r[mm] = 0, 0
-				e := base[mm] - s.half + row
+				g[j], r[j] = 0, 0
+				e := base[j] - s.half + row
 				if uint(e) >= uint(nInt) {
 					continue
 				}
 				W := pr.w[e]
 				u := gb - rb*W
-				den[mm] += rb*rb*W - 2*rb*gb - pr.gamma[e]*u*u
+				den[j] += rb*rb*W - 2*rb*gb - pr.gamma[e]*u*u
 			}
 		}
 	}
-	for mm := range den {
-		den[mm] += dlane[mm%S]
+	s.thinOut(w, nb)
+}
+
+// thinOut adds the lane terms to thinBlock's denominators and writes the
+// numerators and denominators by grid point into w.bnum, w.bden.
+func (s *searcher) thinOut(w *worker, nb int) {
+	num, den := w.pnum[:nb], w.pden[:nb]
+	for j, mm := range w.jmm[:nb] {
+		w.bnum[mm] = num[j]
+		w.bden[mm] = den[j] + w.dlane[w.jlane[j]]
 	}
 }
 
