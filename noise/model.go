@@ -196,33 +196,13 @@ func (m ClockModel) addNoise(x []float64, rng *rand.Rand, tau0 float64, g *flick
 	}
 	// White FM: y_k white with σ_y² = h_0/(2τ0); x_{k+1} = x_k + τ0 y_k.
 	if h := m.H[WhiteFM]; h > 0 {
-		s := tau0 * math.Sqrt(h/(2*tau0))
-		c := 0.0
-		for k0 := 0; k0 < n; k0 += normalChunk {
-			w := buf[:min(normalChunk, n-k0)]
-			fillNormal(rng, w, 1)
-			xs := x[k0 : k0+len(w)]
-			for i, r := range w {
-				xs[i] += c
-				c += s * r
-			}
-		}
+		addRunningSum(rng, x, buf[:], tau0*math.Sqrt(h/(2*tau0)))
 	}
 	// Flicker FM: y = filter(white, σ² = Q_d(y) = π h_{−1}); x = τ0 Σ_{j<k} y_j.
 	// The running sum commutes with the filter, so the summed white input is
 	// added to the same convolution input as flicker PM.
 	if h := m.H[FlickerFM]; h > 0 {
-		s := tau0 * math.Sqrt(math.Pi*h)
-		c := 0.0
-		for k0 := 0; k0 < n; k0 += normalChunk {
-			w := buf[:min(normalChunk, n-k0)]
-			fillNormal(rng, w, 1)
-			vs := v[k0 : k0+len(w)]
-			for i, r := range w {
-				vs[i] += c
-				c += s * r
-			}
-		}
+		addRunningSum(rng, v, buf[:], tau0*math.Sqrt(math.Pi*h))
 	}
 	// Random-walk FM: y_{k+1} = y_k + w_k, σ_w² = 2π² h_{−2} τ0; x = τ0 Σ y.
 	if h := m.H[RandomWalkFM]; h > 0 {
@@ -241,6 +221,22 @@ func (m ClockModel) addNoise(x []float64, rng *rand.Rand, tau0 float64, g *flick
 	}
 	if flicker {
 		g.apply(x)
+	}
+}
+
+// addRunningSum adds to dst the running sum Σ_{j<k} s·w_j of unit normal
+// deviates w drawn from rng in chunks of buf (dst[0] gets 0).
+func addRunningSum(rng *rand.Rand, dst, buf []float64, s float64) {
+	n := len(dst)
+	c := 0.0
+	for k0 := 0; k0 < n; k0 += normalChunk {
+		w := buf[:min(normalChunk, n-k0)]
+		fillNormal(rng, w, 1)
+		ds := dst[k0 : k0+len(w)]
+		for i, r := range w {
+			ds[i] += c
+			c += s * r
+		}
 	}
 }
 

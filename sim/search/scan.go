@@ -207,7 +207,11 @@ func better(a float64, ia int, b float64, ib int) bool {
 // p around t1 (the end segments extended beyond the table, whose last
 // index is lastX), whose slope is the clock's projected velocity.
 func crossing(p []float64, k0 int, t0, invV, invStep, lastX float64) float64 {
-	x := (t0 + p[k0]*invV) * invStep
+	return newtonStep(p, (t0+p[k0]*invV)*invStep, t0, invV, invStep, lastX)
+}
+
+// newtonStep is crossing's Newton step from the first guess x (intervals).
+func newtonStep(p []float64, x, t0, invV, invStep, lastX float64) float64 {
 	// The segment of p around x; beyond the table's ends the end segments
 	// are extended linearly, so x(t0) stays smooth there.
 	i := 0
@@ -238,16 +242,7 @@ func (s *searcher) solveNode(w *worker, out []float64, j int, invV float64) {
 		xg[c] = (t0 + w.proj[c][k0]*invV) * invStep
 	}
 	for c, x := range xg {
-		p := w.proj[c]
-		i := 0
-		if x > 0 {
-			i = min(int(x), int(lastX))
-		}
-		fr := x - float64(i)
-		p0 := p[i]
-		dp := p[i+1] - p0
-		f := x - (t0+(p0+fr*dp)*invV)*invStep
-		out[4*c] = x - f/(1-dp*invV*invStep)
+		out[4*c] = newtonStep(w.proj[c], x, t0, invV, invStep, lastX)
 	}
 }
 
@@ -529,8 +524,9 @@ func floorInt(x float64) int { return int(x+floorBias) - floorBias }
 // t0 returns the geocentre time of grid point m, s since the first epoch.
 func (s *searcher) t0(m int) float64 { return float64(s.m0+m) * s.dt0 }
 
-// scanDirection evaluates every template of direction d at every t0.
-func (s *searcher) scanDirection(w *worker, d int) {
+// project tabulates every scan clock's projection n̂·r (m) on direction d
+// at the data epochs into w.proj.
+func (s *searcher) project(w *worker, d int) {
 	n := s.dirs[d]
 	for c := range s.nScan() {
 		p, pos := w.proj[c], s.pos[c]
@@ -539,6 +535,11 @@ func (s *searcher) scanDirection(w *worker, d int) {
 			p[k] = n[0]*r[0] + n[1]*r[1] + n[2]*r[2]
 		}
 	}
+}
+
+// scanDirection evaluates every template of direction d at every t0.
+func (s *searcher) scanDirection(w *worker, d int) {
+	s.project(w, d)
 	w.resetCrossings()
 	invStep := 1 / s.step
 	// Blocks of t0 outside, speeds inside: the block's stretch of the
@@ -892,18 +893,13 @@ func (s *searcher) denominator(w *worker, base, blo, bhi int, qtot float64) floa
 // evalOne returns the numerator and denominator of template
 // (direction d, speed vi, thickness th, coupling cl) at grid point m on ser.
 func (s *searcher) evalOne(w *worker, ser *series, d, vi, th, cl, m int) (num, den float64) {
-	n := s.dirs[d]
 	invStep, invV := 1/s.step, 1/s.cfg.Speeds[vi]
 	lastX := float64(s.nEpoch-1) - 1e-9
 	t0 := s.t0(m)
 	k0 := min(int(t0*invStep+0.5), s.nEpoch-1)
+	s.project(w, d)
 	for c := range s.nScan() {
-		p, pos := w.proj[c], s.pos[c]
-		for k := range p {
-			r := &pos[k]
-			p[k] = n[0]*r[0] + n[1]*r[1] + n[2]*r[2]
-		}
-		x := crossing(p, k0, t0, invV, invStep, lastX)
+		x := crossing(w.proj[c], k0, t0, invV, invStep, lastX)
 		fi := floorInt(x)
 		w.ci[c*blockLen] = int32(fi)
 		w.ph[c*blockLen] = uint8(min(int((x-float64(fi))*phaseBins), phaseBins-1))
@@ -930,7 +926,6 @@ func (s *searcher) sweepFit(w *worker, ser *series, d, vi, th, cl, m int) (own, 
 	if !s.hasRef {
 		return nan, nan, nan
 	}
-	n := s.dirs[d]
 	invStep, invV := 1/s.step, 1/s.cfg.Speeds[vi]
 	lastX := float64(s.nEpoch-1) - 1e-9
 	t0 := s.t0(m)
@@ -948,17 +943,13 @@ func (s *searcher) sweepFit(w *worker, ser *series, d, vi, th, cl, m int) (own, 
 		return a
 	}
 	var bo, br float64
+	s.project(w, d)
 	for c := range s.nScan() {
 		K := kc[c]
 		if K == 0 {
 			continue
 		}
-		p, pos := w.proj[c], s.pos[c]
-		for k := range p {
-			r := &pos[k]
-			p[k] = n[0]*r[0] + n[1]*r[1] + n[2]*r[2]
-		}
-		x := crossing(p, k0, t0, invV, invStep, lastX)
+		x := crossing(w.proj[c], k0, t0, invV, invStep, lastX)
 		fi := floorInt(x)
 		ph := 0
 		if kt.phase > 1 {

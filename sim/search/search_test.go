@@ -70,12 +70,7 @@ func TestBlockCrossingsAgainstInject(t *testing.T) {
 	worst := 0.0
 	for d := range s.dirs {
 		n := s.dirs[d]
-		for c := range s.nScan() {
-			for k := range w.proj[c] {
-				r := s.pos[c][k]
-				w.proj[c][k] = n[0]*r[0] + n[1]*r[1] + n[2]*r[2]
-			}
-		}
+		s.project(w, d)
 		w.resetCrossings()
 		for m0 := 0; m0 < s.nT0; m0 += blockLen {
 			nb := min(blockLen, s.nT0-m0)
