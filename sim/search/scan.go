@@ -93,6 +93,7 @@ const maxSub = 16
 // worker holds one goroutine's scratch and its running maxima.
 type worker struct {
 	proj  [][]float64 // [scan clock][epoch] n̂·r, m
+	proj2 [][]float64 // the same for the second direction of a pair (run)
 	x     []float64   // [scan clock × blockLen] crossing time, intervals since the first epoch (if keepX)
 	keepX bool        // fill x (tests)
 	// perElement, if set, makes every clock of every block take the
@@ -537,9 +538,48 @@ func (s *searcher) project(w *worker, d int) {
 	}
 }
 
+// projectPair tabulates the projections on directions d and d2 in one
+// pass over the positions (the pass is limited by memory traffic): d into
+// w.proj, d2 into w.proj2.
+func (s *searcher) projectPair(w *worker, d, d2 int) {
+	n, n2 := s.dirs[d], s.dirs[d2]
+	for c := range s.nScan() {
+		p, p2, pos := w.proj[c], w.proj2[c], s.pos[c]
+		p2 = p2[:len(p)]
+		for k := range p {
+			r := &pos[k]
+			p[k] = n[0]*r[0] + n[1]*r[1] + n[2]*r[2]
+			p2[k] = n2[0]*r[0] + n2[1]*r[1] + n2[2]*r[2]
+		}
+	}
+}
+
+// scanPair scans directions d and d2 (d2 < 0: d alone).
+func (s *searcher) scanPair(w *worker, d, d2 int) {
+	if d2 < 0 {
+		s.scanDirection(w, d)
+		return
+	}
+	if w.proj2 == nil {
+		w.proj2 = make([][]float64, len(w.proj))
+		for c := range w.proj2 {
+			w.proj2[c] = make([]float64, len(w.proj[c]))
+		}
+	}
+	s.projectPair(w, d, d2)
+	s.scanProjected(w, d)
+	w.proj, w.proj2 = w.proj2, w.proj
+	s.scanProjected(w, d2)
+}
+
 // scanDirection evaluates every template of direction d at every t0.
 func (s *searcher) scanDirection(w *worker, d int) {
 	s.project(w, d)
+	s.scanProjected(w, d)
+}
+
+// scanProjected is scanDirection with w.proj already filled for d.
+func (s *searcher) scanProjected(w *worker, d int) {
 	w.resetCrossings()
 	invStep := 1 / s.step
 	// Blocks of t0 outside, speeds inside: the block's stretch of the
@@ -1092,7 +1132,9 @@ func (s *searcher) accumulate(w *worker, ser *series, kt *kernelTable, cl, mm, b
 // run scans all directions with a worker pool and merges the maxima.
 func (s *searcher) run() *worker {
 	nw := max(1, min(s.cfg.Workers, len(s.dirs)))
-	jobs := make(chan int)
+	// Jobs are pairs of directions (projectPair reads the positions once
+	// for both); a lone last direction goes alone.
+	jobs := make(chan [2]int)
 	workers := make([]*worker, nw)
 	var wg sync.WaitGroup
 	var mu sync.Mutex
@@ -1103,19 +1145,27 @@ func (s *searcher) run() *worker {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			for d := range jobs {
-				s.scanDirection(w, d)
+			for j := range jobs {
+				s.scanPair(w, j[0], j[1])
 				if s.cfg.Progress != nil {
 					mu.Lock()
-					done++
-					s.cfg.Progress(done, len(s.dirs))
+					for _, d := range j {
+						if d >= 0 {
+							done++
+							s.cfg.Progress(done, len(s.dirs))
+						}
+					}
 					mu.Unlock()
 				}
 			}
 		}()
 	}
-	for d := range s.dirs {
-		jobs <- d
+	for d := 0; d < len(s.dirs); d += 2 {
+		j := [2]int{d, -1}
+		if d+1 < len(s.dirs) {
+			j[1] = d + 1
+		}
+		jobs <- j
 	}
 	close(jobs)
 	wg.Wait()
