@@ -67,7 +67,7 @@ and coupling classes × kernel length) operations; a day of 30-s data
 with 70 clocks and the default bank (2,000 directions x 8 speeds, thin
 walls, two t0 per sample, 6.4e9 template·clock·t0 evaluations) took
 30–36 s of CPU (15–18 s on 2 cores) on this project's 2-core machine, and
-7.5–9.5 s on 2 cores at one t0 per sample. A thick class (--thickness 0,1e4) costs
+7.6–10 s on 2 cores at one t0 per sample. A thick class (--thickness 0,1e4) costs
 about 9 thin classes for d = 1e4 km at 300 km/s. Progress goes to stderr.`,
 		Flags: fs,
 		Run: func(args []string, stdout, stderr io.Writer) error {
