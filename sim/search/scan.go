@@ -236,7 +236,7 @@ func (s *searcher) solveNode(w *worker, out []float64, j int, invV float64) {
 	invStep := 1 / s.step
 	lastX := float64(s.nEpoch-1) - 1e-9
 	t0 := float64(s.m0+j*blockLen) * s.dt0
-	k0 := max(0, min(int(t0*invStep+0.5), s.nEpoch-1))
+	k0 := s.nearestEpoch(t0)
 	ns := s.nScan()
 	xg := w.xg[:ns]
 	for c := range xg {
@@ -324,7 +324,7 @@ func (s *searcher) blockCrossings(w *worker, m0, nb, vi int, invV float64, needC
 	L := float64(max(nb-1, 1)) // edge nodes at mm = 0, L/2, L
 	ta := s.t0(m0)
 	edgeSolve := func(p []float64, t0 float64) float64 {
-		k0 := max(0, min(int(t0*invStep+0.5), s.nEpoch-1))
+		k0 := s.nearestEpoch(t0)
 		return crossing(p, k0, t0, invV, invStep, lastX)
 	}
 	for c := range ns {
@@ -521,6 +521,12 @@ const floorBias = 1 << 30
 
 // floorInt returns ⌊x⌋ for −2³⁰ < x < 2³⁰ (to 2⁻²²).
 func floorInt(x float64) int { return int(x+floorBias) - floorBias }
+
+// nearestEpoch returns the data epoch nearest t0 (s since the first
+// epoch), clamped to the table: the first guess of the crossing solver.
+func (s *searcher) nearestEpoch(t0 float64) int {
+	return max(0, min(int(t0/s.step+0.5), s.nEpoch-1))
+}
 
 // t0 returns the geocentre time of grid point m, s since the first epoch.
 func (s *searcher) t0(m int) float64 { return float64(s.m0+m) * s.dt0 }
@@ -936,7 +942,7 @@ func (s *searcher) evalOne(w *worker, ser *series, d, vi, th, cl, m int) (num, d
 	invStep, invV := 1/s.step, 1/s.cfg.Speeds[vi]
 	lastX := float64(s.nEpoch-1) - 1e-9
 	t0 := s.t0(m)
-	k0 := min(int(t0*invStep+0.5), s.nEpoch-1)
+	k0 := s.nearestEpoch(t0)
 	s.project(w, d)
 	for c := range s.nScan() {
 		x := crossing(w.proj[c], k0, t0, invV, invStep, lastX)
@@ -969,7 +975,7 @@ func (s *searcher) sweepFit(w *worker, ser *series, d, vi, th, cl, m int) (own, 
 	invStep, invV := 1/s.step, 1/s.cfg.Speeds[vi]
 	lastX := float64(s.nEpoch-1) - 1e-9
 	t0 := s.t0(m)
-	k0 := min(int(t0*invStep+0.5), s.nEpoch-1)
+	k0 := s.nearestEpoch(t0)
 	kt := &s.kern[vi][th]
 	kc := s.k[cl]
 	type sums struct{ q, g, r float64 }
@@ -1048,36 +1054,6 @@ func (s *searcher) accumulate(w *worker, ser *series, kt *kernelTable, cl, mm, b
 	nInt := s.nInt
 	off := s.half - base
 	g := w.g
-	if kt.thin() {
-		// Thin wall without AR filter: one interval per clock, value
-		// K/τ0 (s.kg).
-		kg := s.kg[cl]
-		zms, nd := ser.zm, ser.nd
-		for c := range nd {
-			K := kg[c]
-			i := int(w.ci[c*blockLen+mm])
-			if K == 0 || uint(i) >= uint(nInt) {
-				continue
-			}
-			x := zms[i*nd+c]
-			num += K * x.z
-			mk := x.m * K
-			qtot += mk * K
-			if b := i + off; mk != 0 && uint(b) < uint(len(g)) {
-				g[b] += mk
-			}
-		}
-		if s.hasRef {
-			c := s.nData
-			if K := kg[c]; K != 0 {
-				if i := int(w.ci[c*blockLen+mm]); uint(i) < uint(nInt) && uint(i+off) < uint(len(g)) {
-					num += K * ser.zr[i]
-					w.r[i+off] += K
-				}
-			}
-		}
-		return num, qtot
-	}
 	kc := s.k[cl]
 	zms, nd := ser.zm, ser.nd
 	for c := range nd {
